@@ -1,0 +1,1 @@
+//! Exact polynomials and rational functions over the rationals in named parameters.

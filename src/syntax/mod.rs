@@ -1,0 +1,1 @@
+//! The input language: tokens, expressions, statements, model files.
