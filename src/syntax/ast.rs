@@ -129,20 +129,33 @@ impl Expr {
     /// Visits this node and then every sub-expression, depth first, left to right.
     pub fn walk(&self, f: &mut impl FnMut(&Expr)) {
         f(self);
-        match &self.kind {
-            ExprKind::Number(_) | ExprKind::Ident(_) => {}
-            ExprKind::Subscript { index, .. } => index.walk(f),
-            ExprKind::Call { args, .. } => {
-                for arg in args {
-                    arg.walk(f);
-                }
-            }
-            ExprKind::Neg(inner) | ExprKind::Factorial(inner) => inner.walk(f),
-            ExprKind::Binary { lhs, rhs, .. } => {
-                lhs.walk(f);
-                rhs.walk(f);
-            }
+        for child in self.children() {
+            child.walk(f);
         }
+    }
+
+    /// The direct sub-expressions, left to right.
+    pub fn children(&self) -> Vec<&Expr> {
+        match &self.kind {
+            ExprKind::Number(_) | ExprKind::Ident(_) => Vec::new(),
+            ExprKind::Subscript { index, .. } => vec![index],
+            ExprKind::Call { args, .. } => args.iter().collect(),
+            ExprKind::Neg(inner) | ExprKind::Factorial(inner) => vec![inner],
+            ExprKind::Binary { lhs, rhs, .. } => vec![lhs, rhs],
+        }
+    }
+
+    /// The first node (in prefix order) lying `levels` or more below this one, found
+    /// without recursion so that it is safe on any tree.
+    pub fn node_at_depth(&self, levels: usize) -> Option<&Expr> {
+        let mut stack = vec![(self, 0)];
+        while let Some((node, depth)) = stack.pop() {
+            if depth >= levels {
+                return Some(node);
+            }
+            stack.extend(node.children().into_iter().rev().map(|c| (c, depth + 1)));
+        }
+        None
     }
 }
 
@@ -199,5 +212,7 @@ mod tests {
         let mut spans = Vec::new();
         neg.walk(&mut |e| spans.push(e.span.clone()));
         assert_eq!(spans, vec![0..7, 1..7, 1..6, 2..3, 4..5]);
+        assert_eq!(neg.node_at_depth(3).map(|e| e.span.clone()), Some(2..3));
+        assert_eq!(neg.node_at_depth(4), None);
     }
 }

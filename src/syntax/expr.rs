@@ -14,7 +14,7 @@
 //! paper expects. A juxtaposed factor after the first cannot start with `-`: `2 -k` is a
 //! difference.
 
-use super::ast::{BinOp, Expr, ExprKind};
+use super::ast::{BinOp, CmpOp, Expr, ExprKind};
 use super::error::{fail, missing_operand, no_match, reserved_word, PResult};
 use super::token::{Keyword, Token, TokenKind, Tokens};
 use crate::diagnostic::{Diagnostic, Span};
@@ -66,7 +66,7 @@ fn binary(op: BinOp, lhs: Expr, rhs: Expr) -> Expr {
 
 /// Runs `operand` after `operator`; an operand that does not even start is reported
 /// as missing, at the operator.
-fn operand_after<'t>(
+pub(crate) fn operand_after<'t>(
     operator: &'t Token,
     what: &'static str,
     operand: impl Fn(Tokens<'t>) -> PResult<'t, Expr>,
@@ -77,9 +77,49 @@ fn operand_after<'t>(
     }
 }
 
+/// The comparison a token stands for, if any.
+pub(crate) fn comparison(kind: &TokenKind) -> Option<CmpOp> {
+    match kind {
+        TokenKind::Less => Some(CmpOp::Lt),
+        TokenKind::LessEq => Some(CmpOp::Le),
+        TokenKind::Greater => Some(CmpOp::Gt),
+        TokenKind::GreaterEq => Some(CmpOp::Ge),
+        _ => None,
+    }
+}
+
+/// An expression that must be there because `after` announced it.
+pub(crate) fn required_expression<'t>(
+    after: &'t Token,
+    what: &'static str,
+) -> impl Fn(Tokens<'t>) -> PResult<'t, Expr> {
+    operand_after(after, what, expression)
+}
+
+/// The end of the last token consumed between `start` and `rest`.
+pub(crate) fn last_end(start: Tokens<'_>, rest: Tokens<'_>) -> usize {
+    let consumed = start.len() - rest.len();
+    match consumed {
+        0 => peek(start).span.start,
+        n => start[n - 1].span.end,
+    }
+}
+
+/// How deep an expression tree may be, so that every layer may walk it recursively.
+pub const MAX_EXPR_DEPTH: usize = 256;
+
 /// A whole expression.
 pub(crate) fn expression(input: Tokens<'_>) -> PResult<'_, Expr> {
-    sum(input)
+    let (rest, expr) = sum(input)?;
+    if let Some(deep) = expr.node_at_depth(MAX_EXPR_DEPTH) {
+        return fail(
+            Diagnostic::new("this expression is nested too deeply", deep.span.clone())
+                .with_help(format!(
+                "at most {MAX_EXPR_DEPTH} levels of operations are accepted; split it into parts"
+            )),
+        );
+    }
+    Ok((rest, expr))
 }
 
 fn sum(input: Tokens<'_>) -> PResult<'_, Expr> {
@@ -133,26 +173,51 @@ fn starts_atom(kind: &TokenKind) -> bool {
 
 /// Unary minus, binding looser than `^`: `-k^2` is `-(k^2)`.
 fn signed(input: Tokens<'_>) -> PResult<'_, Expr> {
-    match punct(TokenKind::Minus)(input) {
-        Ok((rest, minus)) => {
-            let (rest, inner) = operand_after(minus, "an operand", signed)(rest)?;
-            let span = join(&minus.span, &inner.span);
-            Ok((rest, Expr::new(ExprKind::Neg(Box::new(inner)), span)))
-        }
-        Err(_) => power(input),
-    }
+    let (rest, minuses) = many0(punct(TokenKind::Minus))(input)?;
+    let (rest, inner) = match minuses.last() {
+        Some(minus) => operand_after(minus, "an operand", power)(rest)?,
+        None => power(rest)?,
+    };
+    Ok((rest, negate(minuses, inner)))
 }
 
-/// `base ^ exponent`, right associative through `signed`: `2^3^2` is `2^(3^2)`.
+/// Wraps `inner` in one `Neg` per minus sign, the innermost for the last sign.
+fn negate(minuses: Vec<&Token>, inner: Expr) -> Expr {
+    minuses.into_iter().rev().fold(inner, |acc, minus| {
+        let span = join(&minus.span, &acc.span);
+        Expr::new(ExprKind::Neg(Box::new(acc)), span)
+    })
+}
+
+/// `base ^ exponent`, right associative, each exponent optionally negated: `2^3^2` is
+/// `2^(3^2)`, `2^-3^2` is `2^(-(3^2))`. Built in a loop, not by recursion, so a long
+/// chain cannot exhaust the stack.
 fn power(input: Tokens<'_>) -> PResult<'_, Expr> {
-    let (input, base) = postfix(input)?;
-    match punct(TokenKind::Caret)(input) {
-        Ok((rest, caret)) => {
-            let (rest, exponent) = operand_after(caret, "an exponent", signed)(rest)?;
-            Ok((rest, binary(BinOp::Pow, base, exponent)))
-        }
-        Err(_) => Ok((input, base)),
+    let (mut rest, base) = postfix(input)?;
+    let mut exponents = Vec::new();
+    while let Ok((after_caret, caret)) = punct(TokenKind::Caret)(rest) {
+        let (after_signs, minuses) = many0(punct(TokenKind::Minus))(after_caret)?;
+        let (announcer, what) = match minuses.last() {
+            Some(minus) => (*minus, "an operand"),
+            None => (caret, "an exponent"),
+        };
+        let (after, exponent) = operand_after(announcer, what, postfix)(after_signs)?;
+        exponents.push((minuses, exponent));
+        rest = after;
     }
+    let mut tower: Option<Expr> = None;
+    for (minuses, operand) in exponents.into_iter().rev() {
+        let raised = match tower.take() {
+            None => operand,
+            Some(higher) => binary(BinOp::Pow, operand, higher),
+        };
+        tower = Some(negate(minuses, raised));
+    }
+    let expr = match tower {
+        None => base,
+        Some(exponent) => binary(BinOp::Pow, base, exponent),
+    };
+    Ok((rest, expr))
 }
 
 /// `k!`, `(k+1)!`; `k!!` is `(k!)!`.

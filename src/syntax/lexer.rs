@@ -5,7 +5,7 @@
 //! question about characters, not about the expression grammar.
 
 use super::token::{Keyword, Token, TokenKind};
-use crate::diagnostic::Diagnostic;
+use crate::diagnostic::{Diagnostic, Span};
 use nom::branch::alt;
 use nom::bytes::complete::{tag, take_till, take_while, take_while1};
 use nom::character::complete::{alpha1, alphanumeric0, char, digit1, one_of};
@@ -20,6 +20,11 @@ use num_traits::Pow;
 
 /// Scientific exponents beyond this are refused, so `1e999999999` cannot stall the parser.
 const MAX_DECIMAL_EXPONENT: u32 = 10_000;
+
+/// Limits that keep every recursion over the tree (parsing, dropping, later layers) far
+/// from the end of the stack; real rules stay well inside them.
+const MAX_NESTING: usize = 64;
+const MAX_STATEMENT_TOKENS: usize = 2_000;
 
 /// A lexer error. Its place is stored as the length of the text that remains at the
 /// offending byte, which every sub-parser knows without knowing the whole text.
@@ -90,6 +95,7 @@ fn failure<T>(error: LexError) -> LexResult<'static, T> {
 /// Splits `source` into tokens, ending with an `End` token at `source.len()`.
 pub(crate) fn tokenize(source: &str) -> Result<Vec<Token>, Diagnostic> {
     let mut tokens = Vec::new();
+    let mut limits = Limits::default();
     let mut rest = source;
     let offset = |rest: &str| source.len() - rest.len();
     loop {
@@ -102,6 +108,7 @@ pub(crate) fn tokenize(source: &str) -> Result<Vec<Token>, Diagnostic> {
         }
         let start = offset(rest);
         let (after, kind) = token(rest).map_err(|e| lex_diagnostic(e, source))?;
+        limits.count(&kind, start..offset(after))?;
         let follows_name = matches!(kind, TokenKind::Name(_));
         tokens.push(Token {
             kind,
@@ -125,6 +132,45 @@ pub(crate) fn tokenize(source: &str) -> Result<Vec<Token>, Diagnostic> {
         span: source.len()..source.len(),
     });
     Ok(tokens)
+}
+
+/// Bracket depth and statement length, counted as the tokens go by.
+#[derive(Default)]
+struct Limits {
+    depth: usize,
+    statement_tokens: usize,
+}
+
+impl Limits {
+    fn count(&mut self, kind: &TokenKind, span: Span) -> Result<(), Diagnostic> {
+        match kind {
+            TokenKind::Separator => {
+                *self = Limits::default();
+                return Ok(());
+            }
+            TokenKind::LParen | TokenKind::LBracket | TokenKind::LBrace => self.depth += 1,
+            TokenKind::RParen | TokenKind::RBracket | TokenKind::RBrace => {
+                self.depth = self.depth.saturating_sub(1)
+            }
+            _ => {}
+        }
+        self.statement_tokens += 1;
+        if self.depth > MAX_NESTING {
+            return Err(
+                Diagnostic::new("brackets are nested too deeply", span).with_help(format!(
+                    "at most {MAX_NESTING} levels of brackets are accepted"
+                )),
+            );
+        }
+        if self.statement_tokens > MAX_STATEMENT_TOKENS {
+            return Err(
+                Diagnostic::new("this statement is too long", span).with_help(format!(
+                "a statement may hold at most {MAX_STATEMENT_TOKENS} tokens; split it into several"
+            )),
+            );
+        }
+        Ok(())
+    }
 }
 
 fn lex_diagnostic(error: nom::Err<LexError>, source: &str) -> Diagnostic {

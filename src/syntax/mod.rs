@@ -1,9 +1,9 @@
 //! The input language: model files and rule strings, turned into a syntax tree.
 //!
-//! Two steps, each with one job: [`lexer`] turns text into tokens (exact numbers, names,
-//! subscripts, operators, statement separators) and the parser ([`expr`], [`statement`])
-//! builds the tree with nom, one function per grammar production. The full grammar is in
-//! `grammar/telescope.ebnf`.
+//! Two steps, each with one job: `lexer` turns text into tokens (exact numbers, names,
+//! subscripts, operators, statement separators), then the parser (`expr`, `statement`,
+//! `param`, `range`) builds the tree with nom, one function per grammar production.
+//! The full grammar, with examples that the tests parse, is `grammar/telescope.ebnf`.
 //!
 //! The parser knows nothing about mathematics: it does not decide whether `k(k+1)` is a
 //! sequence term or a product, or whether `lambda_0` is a parameter; it records what was
@@ -20,6 +20,8 @@ mod display;
 mod error;
 mod expr;
 mod lexer;
+mod param;
+mod range;
 mod statement;
 mod token;
 
@@ -28,6 +30,7 @@ pub use ast::{
     StatementKind,
 };
 pub use display::display_expr;
+pub use expr::MAX_EXPR_DEPTH;
 
 use crate::diagnostic::Diagnostic;
 use error::into_diagnostic;
@@ -39,15 +42,23 @@ pub fn parse_model(text: &str) -> Result<Model, Diagnostic> {
     let (_, model) = statement::model(&tokens).map_err(into_diagnostic)?;
     if model.statements.is_empty() {
         let span = tokens[tokens.len() - 1].span.clone();
-        return Err(Diagnostic::new("the input has no statements", span)
-            .with_help("write a rule such as `a(k)/a(k-1) = (k-1)/(k+2)`"));
+        return Err(
+            Diagnostic::new("empty input: there is no statement to read", span)
+                .with_help("write a rule such as `a(k)/a(k-1) = (k-1)/(k+2)`"),
+        );
     }
     Ok(model)
 }
 
 /// Parses one expression that must fill the whole text (blanks and a comment aside).
 pub fn parse_expr(text: &str) -> Result<Expr, Diagnostic> {
-    let tokens = lexer::tokenize(text)?;
+    let all_tokens = lexer::tokenize(text)?;
+    // Leading blank and comment lines are harmless; `End` is never a separator.
+    let start = all_tokens
+        .iter()
+        .position(|t| t.kind != TokenKind::Separator)
+        .unwrap_or(0);
+    let tokens = &all_tokens[start..];
     let first = &tokens[0];
     if first.kind == TokenKind::End {
         return Err(
@@ -55,7 +66,7 @@ pub fn parse_expr(text: &str) -> Result<Expr, Diagnostic> {
                 .with_help("write an expression such as `(k-1)/(k+2)`"),
         );
     }
-    let (rest, expr) = match expr::expression(&tokens) {
+    let (rest, expr) = match expr::expression(tokens) {
         Ok(done) => done,
         Err(nom::Err::Error(_)) => {
             return Err(Diagnostic::new(
@@ -65,8 +76,10 @@ pub fn parse_expr(text: &str) -> Result<Expr, Diagnostic> {
         }
         Err(e) => return Err(into_diagnostic(e)),
     };
-    let next = &rest[0];
-    if next.kind != TokenKind::End {
+    // Trailing line breaks (a file, standard input) are not a second expression.
+    let after_separators = rest.iter().find(|t| t.kind != TokenKind::Separator);
+    if after_separators.map(|t| &t.kind) != Some(&TokenKind::End) {
+        let next = &rest[0];
         let diagnostic = match next.kind {
             TokenKind::Separator => {
                 Diagnostic::new("expected a single expression", next.span.clone())

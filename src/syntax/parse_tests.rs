@@ -56,8 +56,8 @@ fn parse_expr_reads_one_whole_expression() {
 
 /// (input, line, column, words the message must contain)
 const MALFORMED: &[(&str, usize, usize, &str)] = &[
-    ("", 1, 1, "no statements"),
-    ("# only a comment\n\n", 3, 1, "no statements"),
+    ("", 1, 1, "no statement"),
+    ("# only a comment\n\n", 3, 1, "no statement"),
     ("k + $", 1, 5, "unexpected character `$`"),
     ("n(k)/n(k-1) = (k-1", 1, 15, "unclosed parenthesis"),
     (
@@ -105,6 +105,7 @@ fn malformed_inputs_point_at_the_offending_column() {
 fn parse_expr_errors() {
     let d = parse_expr("").unwrap_err();
     assert!(d.message.contains("empty input"));
+    assert!(parse_expr("# ratio\nk\n\n").is_ok());
     let d = parse_expr("k ; 2").unwrap_err();
     assert_eq!(d.span, 2..3);
     let d = parse_expr("a = b").unwrap_err();
@@ -155,4 +156,41 @@ proptest! {
         }
         let _ = parse_expr(&text);
     }
+}
+
+/// Worst shapes at the size limits still parse, print and drop on a test thread's
+/// stack (2 MiB), and one step past a limit is a diagnostic.
+#[test]
+fn inputs_at_the_limits_do_not_exhaust_the_stack() {
+    let depth = MAX_EXPR_DEPTH - 1;
+    let long_sum = format!("x = 1{}", "+1".repeat(depth));
+    let minus_chain = format!("x = {}k", "-".repeat(depth));
+    let power_tower = format!("x = 2{}", "^2".repeat(depth));
+    let deep = format!("x = {}k{}", "(".repeat(64), ")".repeat(64));
+    let deep_calls = format!("x = {}k{}", "f(".repeat(64), ")".repeat(64));
+    for text in [long_sum, minus_chain, power_tower, deep, deep_calls] {
+        let model = parse_model(&text).unwrap_or_else(|d| panic!("{}", d.message));
+        if let StatementKind::Equation { rhs, .. } = &model.statements[0].kind {
+            assert!(!display_expr(rhs).is_empty());
+        }
+    }
+    let too_deep = format!("x = {}k{}", "(".repeat(65), ")".repeat(65));
+    let d = parse_model(&too_deep).unwrap_err();
+    assert_eq!(
+        (d.message.as_str(), d.span.start),
+        ("brackets are nested too deeply", 68)
+    );
+    let d = parse_model(&format!("x = {}k", "-".repeat(MAX_EXPR_DEPTH))).unwrap_err();
+    assert_eq!(
+        (d.message.as_str(), d.span.start),
+        ("this expression is nested too deeply", 4 + MAX_EXPR_DEPTH)
+    );
+    let too_long = format!("x = {}k", "-".repeat(2000));
+    assert!(parse_model(&too_long)
+        .unwrap_err()
+        .message
+        .contains("too long"));
+    // The length limit is per statement, not per file.
+    let many = "x = 1+1+1+1+1+1+1+1+1\n".repeat(500);
+    assert_eq!(parse_model(&many).unwrap().statements.len(), 500);
 }
