@@ -113,10 +113,11 @@ pub(crate) fn expression(input: Tokens<'_>) -> PResult<'_, Expr> {
     let (rest, expr) = sum(input)?;
     if let Some(deep) = expr.node_at_depth(MAX_EXPR_DEPTH) {
         return fail(
-            Diagnostic::new("this expression is nested too deeply", deep.span.clone())
-                .with_help(format!(
+            Diagnostic::new("this expression is nested too deeply", deep.span.clone()).with_help(
+                format!(
                 "at most {MAX_EXPR_DEPTH} levels of operations are accepted; split it into parts"
-            )),
+            ),
+            ),
         );
     }
     Ok((rest, expr))

@@ -54,6 +54,11 @@ fn after_statement(token: &Token, statement: &Statement) -> Diagnostic {
             token.span.clone(),
         )
         .with_help("write a piecewise rule as separate statements, one per range"),
+        (TokenKind::Keyword(Keyword::Integer), StatementKind::Param(_)) => Diagnostic::new(
+            "`integer` must come right after the names",
+            token.span.clone(),
+        )
+        .with_help("write `param N integer >= 1`"),
         (TokenKind::Name(_), StatementKind::Param(_)) => Diagnostic::new(
             format!("unexpected {}", token.kind.describe()),
             token.span.clone(),
@@ -212,6 +217,9 @@ mod tests {
         assert_eq!(failure("param a in (0, 1}").span, 16..17);
         assert_eq!(failure("param a b").span, 8..9);
         assert_eq!(failure("param a = 2").span, 8..9);
+        assert!(failure("param N >= 1 integer")
+            .message
+            .contains("right after the names"));
         assert_eq!(failure("param a_{1} > 0").span, 8..9);
         assert_eq!(failure("k >= 2").span, 2..4);
         assert_eq!(failure("k) + 1").span, 1..2);
