@@ -178,6 +178,22 @@ impl Poly {
         p
     }
 
+    /// Rational coefficients in `var` (`result[i]` multiplies `var^i`) when no other variable
+    /// occurs: the input [`rational_roots`](super::rational_roots) takes. Empty for zero.
+    pub fn univariate_coeffs(&self, var: &str) -> Option<Vec<Q>> {
+        self.coeffs_in(var).iter().map(Poly::as_constant).collect()
+    }
+
+    /// `Σ coeffs[i] * var^i`.
+    pub fn from_univariate(var: &str, coeffs: &[Q]) -> Poly {
+        Poly::from_terms(
+            coeffs
+                .iter()
+                .enumerate()
+                .map(|(i, c)| (Monomial::from_factors([(var, i as u32)]), c.clone())),
+        )
+    }
+
     /// The coefficient of the highest power of `var` (zero for the zero polynomial).
     pub fn leading_coeff_in(&self, var: &str) -> Poly {
         self.coeffs_in(var).pop().unwrap_or_default()
@@ -428,6 +444,18 @@ mod tests {
         assert!(Poly::zero().coeffs_in("x").is_empty());
         assert_eq!(Poly::from_coeffs_in("x", &[]), Poly::zero());
         assert_eq!(Poly::zero().leading_coeff_in("x"), Poly::zero());
+    }
+
+    #[test]
+    fn univariate_round_trip() {
+        let k = Poly::var("k");
+        let p = c(6, 1) * k.pow(2) - c(1, 2);
+        let coeffs = p.univariate_coeffs("k").unwrap();
+        assert_eq!(coeffs, vec![q(-1, 2), Q::zero(), q(6, 1)]);
+        assert_eq!(Poly::from_univariate("k", &coeffs), p);
+        assert_eq!((&p * &x()).univariate_coeffs("k"), None);
+        assert_eq!(Poly::zero().univariate_coeffs("k"), Some(vec![]));
+        assert_eq!(c(3, 1).univariate_coeffs("k"), Some(vec![q(3, 1)]));
     }
 
     #[test]

@@ -112,6 +112,11 @@ impl RatFunc {
         &self.den
     }
 
+    /// `(numerator, denominator)`, consuming the value.
+    pub fn into_parts(self) -> (Poly, Poly) {
+        (self.num, self.den)
+    }
+
     pub fn is_zero(&self) -> bool {
         self.num.is_zero()
     }
@@ -170,8 +175,16 @@ impl RatFunc {
         }
     }
 
-    /// Value with every variable bound.
+    /// Value with every variable bound; an unbound variable (the first by name) is reported
+    /// before a vanishing denominator.
     pub fn eval(&self, values: &BTreeMap<String, Q>) -> Result<Q, EvalError> {
+        if let Some(missing) = self
+            .variables()
+            .into_iter()
+            .find(|v| !values.contains_key(v))
+        {
+            return Err(EvalError::Unbound(missing));
+        }
         let den = self.den.eval(values)?;
         let num = self.num.eval(values)?;
         if den.is_zero() {
@@ -232,7 +245,12 @@ impl fmt::Display for RatFunc {
         if self.den.is_one() {
             return write!(f, "{}", self.num);
         }
-        if self.num.term_count() > 1 {
+        let bare_num = self.num.term_count() == 1
+            && self
+                .num
+                .leading_term()
+                .is_some_and(|(_, c)| super::rational::is_integer(c));
+        if !bare_num {
             write!(f, "({})", self.num)?;
         } else {
             write!(f, "{}", self.num)?;

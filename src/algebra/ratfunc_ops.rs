@@ -211,6 +211,19 @@ mod tests {
     }
 
     #[test]
+    fn unbound_is_reported_by_name_before_division_by_zero() {
+        let r = v("z").checked_div(&(v("a") - c(1))).unwrap();
+        let mut values: BTreeMap<String, Q> = BTreeMap::new();
+        assert_eq!(r.eval(&values), Err(EvalError::Unbound("a".into())));
+        values.insert("a".into(), q(1, 1));
+        assert_eq!(r.eval(&values), Err(EvalError::Unbound("z".into())));
+        values.insert("z".into(), q(1, 1));
+        assert_eq!(r.eval(&values), Err(EvalError::DivisionByZero));
+        let (num, den) = r.into_parts();
+        assert_eq!((num, den), (p("z"), p("a") - Poly::one()));
+    }
+
+    #[test]
     fn evaluation() {
         let (x, y) = (v("x"), v("y"));
         let r = (&x + &y).checked_div(&(&x - c(1))).unwrap();
@@ -268,7 +281,7 @@ mod tests {
         assert_eq!(c(1).checked_div(&v("x")).unwrap().to_string(), "1/x");
         assert_eq!(
             c(1).checked_div(&(c(2) * v("x"))).unwrap().to_string(),
-            "1/2/x"
+            "(1/2)/x"
         );
         assert_eq!(
             v("y")

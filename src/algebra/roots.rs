@@ -22,6 +22,8 @@ pub fn rational_roots(coeffs: &[Q]) -> (Vec<(Q, u32)>, Vec<Q>) {
     if poly.len() <= 1 {
         return (Vec::new(), poly);
     }
+    // p / gcd(p, p') keeps each distinct root once (characteristic 0; Geddes, Czapor,
+    // Labahn, "Algorithms for Computer Algebra", ch. 8).
     let square_free = integer_primitive(&divide(&poly, &gcd(&poly, &derivative(&poly))).0);
     let mut candidates = Vec::new();
     search_roots(&square_free, &mut candidates);
