@@ -1,9 +1,9 @@
-//! Property tests: field laws for [`RatFunc`] and the defining properties of [`Poly::gcd`],
-//! on small random polynomials in three variables.
+//! Property tests: field laws for [`RatFunc`], the defining properties of [`Poly::gcd`] (on
+//! small random polynomials in three variables), rational roots and `parse_q` round trips.
 
 use proptest::prelude::*;
 
-use super::{q, Monomial, Poly, RatFunc};
+use super::{parse_q, q, rational_roots, Monomial, Poly, RatFunc, Q};
 
 const VARIABLES: [&str; 3] = ["x", "y", "z"];
 
@@ -28,6 +28,16 @@ fn small_ratfunc() -> impl Strategy<Value = RatFunc> {
 
 fn nonzero_ratfunc() -> impl Strategy<Value = RatFunc> {
     small_ratfunc().prop_filter("non-zero", |r| !r.is_zero())
+}
+
+/// Distinct roots n/d with |n| <= 40, d in 1..=12, each with multiplicity 1..=3.
+fn root_set() -> impl Strategy<Value = Vec<(Q, u32)>> {
+    prop::collection::vec(((-40i64..=40, 1i64..=12), 1u32..=3), 0..=4).prop_map(|raw| {
+        let mut roots: Vec<(Q, u32)> = raw.into_iter().map(|((n, d), m)| (q(n, d), m)).collect();
+        roots.sort();
+        roots.dedup_by(|a, b| a.0 == b.0);
+        roots
+    })
 }
 
 /// Normalised as `Poly::gcd` normalises: primitive, positive leading coefficient.
@@ -100,5 +110,26 @@ proptest! {
         let a_rest = a.div_exact(&g).unwrap();
         let b_rest = b.div_exact(&g).unwrap();
         prop_assert!(Poly::gcd(&a_rest, &b_rest).is_one());
+    }
+
+    // Rational root theorem round trip: expand lead·(x^2 + x + 1)·Π (x - r)^m and recover
+    // the roots; x^2 + x + 1 has negative discriminant, so no rational root (common practice).
+    #[test]
+    fn rational_roots_round_trip(roots in root_set(), lead_n in 1i64..=9, lead_d in 1i64..=5) {
+        let x = Poly::var("x");
+        let cofactor = Poly::constant(q(lead_n, lead_d)) * (x.pow(2) + &x + Poly::one());
+        let product = roots.iter().fold(cofactor.clone(), |acc, (r, m)| {
+            acc * (&x - Poly::constant(r.clone())).pow(*m)
+        });
+        let (found, rest) = rational_roots(&product.univariate_coeffs("x").unwrap());
+        prop_assert_eq!(found, roots);
+        prop_assert_eq!(Poly::from_univariate("x", &rest), cofactor);
+    }
+
+    #[test]
+    fn parse_q_reads_fractions_back(n in -10_000i64..=10_000, d in 1i64..=10_000) {
+        let value = q(n, d);
+        prop_assert_eq!(parse_q(&value.to_string()), Some(value.clone()));
+        prop_assert_eq!(parse_q(&format!("{n}/{d}")), Some(value));
     }
 }
