@@ -1,0 +1,303 @@
+//! Multivariate polynomial gcd over Q.
+//!
+//! Recursive scheme (Geddes, Czapor, Labahn, "Algorithms for Computer Algebra", ch. 7): view
+//! both polynomials as univariate in one main variable with coefficients in the remaining
+//! variables; the gcd is gcd(contents) times the gcd of the primitive parts. Contents are
+//! gcds of polynomials in fewer variables, so the recursion ends at constants.
+//!
+//! Remainder sequences swell quickly in several variables, so cheap exits come first: common
+//! monomial factors are split off, evaluation images bound the degree of the gcd in each
+//! variable (a bound of 0 in the main variable means the primitive parts are coprime, the
+//! usual case when adding rational functions), and a divisibility test catches `b | a`. Only
+//! what is left goes through the subresultant remainder sequence.
+
+use std::collections::BTreeMap;
+
+use num_bigint::BigInt;
+use num_traits::One;
+
+use super::dense;
+use super::monomial::Monomial;
+use super::poly::Poly;
+use super::rational::Q;
+
+pub(crate) fn gcd(a: &Poly, b: &Poly) -> Poly {
+    if a.is_zero() {
+        return normalise(b);
+    }
+    if b.is_zero() {
+        return normalise(a);
+    }
+    let (monomial_a, a) = split_monomial_content(a);
+    let (monomial_b, b) = split_monomial_content(b);
+    let common_monomial = Poly::from_term(monomial_gcd(&monomial_a, &monomial_b), Q::one());
+    let Some((main, bound)) = choose_main_variable(&a, &b) else {
+        return common_monomial;
+    };
+    let (content_a, primitive_a) = content_and_primitive_in(&a, &main);
+    let (content_b, primitive_b) = content_and_primitive_in(&b, &main);
+    let content = gcd(&content_a, &content_b);
+    let primitive = primitive_gcd_in(primitive_a, primitive_b, &main, bound);
+    normalise(&(&(&content * &primitive) * &common_monomial))
+}
+
+/// The largest monomial dividing every term, and the quotient.
+fn split_monomial_content(p: &Poly) -> (Monomial, Poly) {
+    let mut terms = p.terms();
+    let (first, _) = terms.next().expect("non-zero");
+    let common = terms.fold(first.clone(), |acc, (m, _)| monomial_gcd(&acc, m));
+    if common.is_one() {
+        return (common, p.clone());
+    }
+    let quotient = Poly::from_terms(p.terms().map(|(m, c)| {
+        let reduced = m.checked_div(&common).expect("divides every term");
+        (reduced, c.clone())
+    }));
+    (common, quotient)
+}
+
+/// Least exponent of each variable.
+fn monomial_gcd(a: &Monomial, b: &Monomial) -> Monomial {
+    Monomial::from_factors(
+        a.factors()
+            .map(|(name, e)| (name, e.min(b.degree_in(name)))),
+    )
+}
+
+/// Picks the main variable, with the degree bound of the gcd in it when one was computed.
+/// First choice: a variable only one input contains (the other's primitive part is then a
+/// constant); next, one whose degree bound is 0; otherwise the smallest bound, so the
+/// remainder sequence is short. `None` when neither input has a variable.
+fn choose_main_variable(a: &Poly, b: &Poly) -> Option<(String, Option<u32>)> {
+    let mut variables = a.variables();
+    variables.extend(b.variables());
+    if let Some(var) = variables
+        .iter()
+        .find(|v| !a.contains_var(v) || !b.contains_var(v))
+    {
+        return Some((var.clone(), None));
+    }
+    let bounded = variables
+        .iter()
+        .filter_map(|v| degree_bound(a, b, v).map(|bound| (bound, v)))
+        .min();
+    match bounded {
+        Some((bound, var)) => Some((var.clone(), Some(bound))),
+        None => variables.into_iter().next().map(|v| (v, None)),
+    }
+}
+
+/// Primitive part with integer coefficients and positive leading coefficient; zero stays zero.
+fn normalise(p: &Poly) -> Poly {
+    p.content_and_primitive().1
+}
+
+/// Content of `p` as a polynomial in `var` (the gcd of its coefficients, which do not contain
+/// `var`) and the primitive part `p / content`. For non-zero `p` only.
+fn content_and_primitive_in(p: &Poly, var: &str) -> (Poly, Poly) {
+    let mut content = Poly::zero();
+    for coeff in p.coeffs_in(var) {
+        content = gcd(&content, &coeff);
+        if content.is_one() {
+            return (content, normalise(p));
+        }
+    }
+    let primitive = p
+        .div_exact(&content)
+        .expect("the content divides every coefficient");
+    (content, normalise(&primitive))
+}
+
+/// Gcd of two non-zero polynomials that are primitive in `var`; `known_bound` is a degree
+/// bound in `var` already computed for them (or for any multiples by factors free of `var`).
+fn primitive_gcd_in(a: Poly, b: Poly, var: &str, known_bound: Option<u32>) -> Poly {
+    let (higher, lower) = if a.degree_in(var) >= b.degree_in(var) {
+        (a, b)
+    } else {
+        (b, a)
+    };
+    if lower.degree_in(var) == 0 {
+        // Primitive in `var` and free of it: a constant, coprime to everything.
+        return Poly::one();
+    }
+    let bound = known_bound.or_else(|| degree_bound(&higher, &lower, var));
+    if bound == Some(0) {
+        return Poly::one();
+    }
+    if bound == Some(lower.degree_in(var)) && higher.div_exact(&lower).is_some() {
+        return lower;
+    }
+    subresultant_gcd(higher, lower, var)
+}
+
+/// Upper bound on the degree in `var` of gcd(a, b): the degree of the gcd of the univariate
+/// images at a point where neither leading coefficient vanishes, since every common divisor
+/// maps to a common divisor of the same degree there (Geddes, Czapor, Labahn, ch. 7,
+/// "unlucky" evaluations only overestimate). `None` if no tried point was usable.
+fn degree_bound(a: &Poly, b: &Poly, var: &str) -> Option<u32> {
+    let mut others = a.variables();
+    others.extend(b.variables());
+    others.remove(var);
+    let (lead_a, lead_b) = (a.leading_coeff_in(var), b.leading_coeff_in(var));
+    for attempt in 0..4i64 {
+        // Small distinct integers away from 0 and 1, where sparse leading coefficients
+        // often vanish (common practice).
+        let point: BTreeMap<String, Q> = others
+            .iter()
+            .enumerate()
+            .map(|(i, name)| {
+                let value = 2 + 3 * attempt + 7 * i as i64;
+                (name.clone(), Q::from_integer(BigInt::from(value)))
+            })
+            .collect();
+        let vanishes = |p: &Poly| p.eval_partial(&point).is_zero();
+        if vanishes(&lead_a) || vanishes(&lead_b) {
+            continue;
+        }
+        let image_a = univariate_image(a, var, &point);
+        let image_b = univariate_image(b, var, &point);
+        let image_gcd = dense::gcd(&image_a, &image_b);
+        return Some(image_gcd.len().saturating_sub(1) as u32);
+    }
+    None
+}
+
+fn univariate_image(p: &Poly, var: &str, point: &BTreeMap<String, Q>) -> Vec<Q> {
+    p.coeffs_in(var)
+        .iter()
+        .map(|coeff| {
+            coeff
+                .eval_partial(point)
+                .as_constant()
+                .expect("every other variable is bound")
+        })
+        .collect()
+}
+
+/// Last non-zero member of the subresultant remainder sequence, made primitive in `var`
+/// (Knuth, TAOCP vol. 2, §4.6.1, Algorithm C; Brown and Traub 1971). Its exact divisions
+/// keep coefficients small without a gcd per step.
+fn subresultant_gcd(higher: Poly, lower: Poly, var: &str) -> Poly {
+    let (mut a, mut b) = (higher, lower);
+    let (mut g, mut h) = (Poly::one(), Poly::one());
+    loop {
+        let delta = a.degree_in(var) - b.degree_in(var);
+        let remainder = pseudo_remainder(&a, &b, var);
+        if remainder.is_zero() {
+            return content_and_primitive_in(&b, var).1;
+        }
+        if remainder.degree_in(var) == 0 {
+            return Poly::one();
+        }
+        let divisor = &g * &h.pow(delta);
+        a = b;
+        b = remainder
+            .div_exact(&divisor)
+            .expect("subresultant division is exact");
+        g = a.leading_coeff_in(var);
+        h = if delta == 0 {
+            h
+        } else {
+            g.pow(delta)
+                .div_exact(&h.pow(delta - 1))
+                .expect("subresultant division is exact")
+        };
+    }
+}
+
+/// `lc(b)^(deg a - deg b + 1) * a` reduced modulo `b` in `var` (pseudo-division, Knuth,
+/// TAOCP vol. 2, §4.6.1, Algorithm R); the full power of the leading coefficient is what the
+/// subresultant divisions assume.
+fn pseudo_remainder(a: &Poly, b: &Poly, var: &str) -> Poly {
+    let degree_b = b.degree_in(var);
+    let lead_b = b.leading_coeff_in(var);
+    let mut steps_left = a.degree_in(var) + 1 - degree_b;
+    let mut remainder = a.clone();
+    while !remainder.is_zero() && remainder.degree_in(var) >= degree_b {
+        let degree_r = remainder.degree_in(var);
+        let lead_r = remainder.leading_coeff_in(var);
+        let shift = Poly::var(var).pow(degree_r - degree_b);
+        remainder = &remainder * &lead_b - &(&lead_r * &shift) * b;
+        steps_left -= 1;
+    }
+    &remainder * &lead_b.pow(steps_left)
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::algebra::rational::q;
+    use crate::algebra::Poly;
+
+    fn v(name: &str) -> Poly {
+        Poly::var(name)
+    }
+    fn c(n: i64) -> Poly {
+        Poly::from_integer(n)
+    }
+
+    #[test]
+    fn zero_and_constant_cases() {
+        let p = c(2) * v("x") + c(4);
+        assert_eq!(Poly::gcd(&Poly::zero(), &Poly::zero()), Poly::zero());
+        assert_eq!(Poly::gcd(&Poly::zero(), &p), v("x") + c(2));
+        assert_eq!(Poly::gcd(&p, &Poly::zero()), v("x") + c(2));
+        assert_eq!(Poly::gcd(&c(6), &p), Poly::one());
+        assert_eq!(Poly::gcd(&Poly::constant(q(-1, 3)), &p), Poly::one());
+        assert_eq!(Poly::gcd(&c(6), &c(4)), Poly::one());
+        assert_eq!(Poly::gcd(&Poly::zero(), &c(-7)), Poly::one());
+    }
+
+    #[test]
+    fn univariate_gcd() {
+        // (x-1)(x+2) and (x-1)(x-3) share x - 1.
+        let x = v("x");
+        let a = (&x - c(1)) * (&x + c(2));
+        let b = (&x - c(1)) * (&x - c(3));
+        assert_eq!(Poly::gcd(&a, &b), &x - c(1));
+        assert_eq!(Poly::gcd(&(&x + c(2)), &(&x - c(3))), Poly::one());
+        // Rational coefficients: gcd(x/2 - 1/3, 3x^2 - 2x) = 3x - 2.
+        let rational = x.scale(&q(1, 2)) - Poly::constant(q(1, 3));
+        assert_eq!(
+            Poly::gcd(&rational, &(c(3) * x.pow(2) - c(2) * &x)),
+            c(3) * &x - c(2)
+        );
+    }
+
+    #[test]
+    fn normalised_sign_and_content() {
+        let x = v("x");
+        let y = v("y");
+        let g = Poly::gcd(&(c(-4) * (&x - &y)), &(c(-6) * (&x - &y) * &x));
+        assert_eq!(g, &x - &y);
+        assert_eq!(Poly::gcd(&(-&x), &(-&x)), x);
+    }
+
+    #[test]
+    fn three_variable_common_factor() {
+        // gcd((x+y)(x-2z)(y+1), (x+y)^2 (y+1) z) = (x+y)(y+1).
+        let (x, y, z) = (v("x"), v("y"), v("z"));
+        let a = (&x + &y) * (&x - c(2) * &z) * (&y + c(1));
+        let b = (&x + &y).pow(2) * (&y + c(1)) * &z;
+        let expected = (&x + &y) * (&y + c(1));
+        assert_eq!(Poly::gcd(&a, &b), expected);
+        assert_eq!(Poly::gcd(&b, &a), expected);
+    }
+
+    #[test]
+    fn gcd_with_parameters_in_coefficients() {
+        // (k + rho)(k - 1) and (k + rho)(rho k + 1): common factor k + rho.
+        let (k, rho) = (v("k"), v("rho"));
+        let a = (&k + &rho) * (&k - c(1));
+        let b = (&k + &rho) * (&rho * &k + c(1));
+        assert_eq!(Poly::gcd(&a, &b), &k + &rho);
+        // Content only: gcd(rho k + rho, rho^2) = rho.
+        assert_eq!(Poly::gcd(&(&rho * &k + &rho), &rho.pow(2)), rho);
+    }
+
+    #[test]
+    fn coprime_multivariate() {
+        let (x, y) = (v("x"), v("y"));
+        assert_eq!(Poly::gcd(&(&x + &y), &(&x - &y)), Poly::one());
+        assert_eq!(Poly::gcd(&(x.pow(2) + y.pow(2)), &(&x + &y)), Poly::one());
+    }
+}

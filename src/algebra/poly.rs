@@ -1,0 +1,572 @@
+//! Multivariate polynomials over Q in named variables.
+//!
+//! Arithmetic operators live in `poly_ops.rs`, the gcd in `gcd.rs`.
+
+use std::cmp::Ordering;
+use std::collections::{BTreeMap, BTreeSet};
+use std::fmt;
+
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, Signed, Zero};
+
+use super::monomial::Monomial;
+use super::rational::Q;
+
+/// Evaluation met a variable with no value.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct UnboundVariable(pub String);
+
+impl fmt::Display for UnboundVariable {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "no value given for `{}`", self.0)
+    }
+}
+
+impl std::error::Error for UnboundVariable {}
+
+/// Storage key that sorts monomials in the canonical term order, so a `BTreeMap` lists terms
+/// the way [`Poly::terms`] promises and equal polynomials are equal maps.
+#[derive(Clone, Debug, PartialEq, Eq, Hash)]
+pub(crate) struct TermKey(pub(crate) Monomial);
+
+impl Ord for TermKey {
+    fn cmp(&self, other: &Self) -> Ordering {
+        self.0.canonical_cmp(&other.0)
+    }
+}
+
+impl PartialOrd for TermKey {
+    fn partial_cmp(&self, other: &Self) -> Option<Ordering> {
+        Some(self.cmp(other))
+    }
+}
+
+/// A polynomial with rational coefficients; no zero coefficient is ever stored, so the zero
+/// polynomial has no terms and equal polynomials are equal values.
+#[derive(Clone, Debug, PartialEq, Eq, Hash, Default)]
+pub struct Poly {
+    pub(crate) terms: BTreeMap<TermKey, Q>,
+}
+
+impl Poly {
+    pub fn zero() -> Self {
+        Poly::default()
+    }
+
+    pub fn one() -> Self {
+        Poly::constant(Q::one())
+    }
+
+    pub fn constant(c: Q) -> Self {
+        Poly::from_term(Monomial::one(), c)
+    }
+
+    pub fn from_integer(n: i64) -> Self {
+        Poly::constant(Q::from_integer(BigInt::from(n)))
+    }
+
+    pub fn var(name: &str) -> Self {
+        Poly::from_term(Monomial::var(name), Q::one())
+    }
+
+    /// The single term `c * m` (zero when `c` is zero).
+    pub fn from_term(m: Monomial, c: Q) -> Self {
+        let mut p = Poly::zero();
+        p.add_term(m, c);
+        p
+    }
+
+    /// Sum of `(monomial, coefficient)` pairs; repeated monomials are added together.
+    pub fn from_terms(terms: impl IntoIterator<Item = (Monomial, Q)>) -> Self {
+        let mut p = Poly::zero();
+        for (m, c) in terms {
+            p.add_term(m, c);
+        }
+        p
+    }
+
+    /// Adds `c * m` in place, dropping the term if it cancels.
+    pub(crate) fn add_term(&mut self, m: Monomial, c: Q) {
+        if c.is_zero() {
+            return;
+        }
+        let key = TermKey(m);
+        match self.terms.get_mut(&key) {
+            Some(existing) => {
+                *existing += c;
+                if existing.is_zero() {
+                    self.terms.remove(&key);
+                }
+            }
+            None => {
+                self.terms.insert(key, c);
+            }
+        }
+    }
+
+    pub fn is_zero(&self) -> bool {
+        self.terms.is_empty()
+    }
+
+    pub fn is_one(&self) -> bool {
+        self.as_constant().is_some_and(|c| c.is_one())
+    }
+
+    /// `Some(c)` when no variable occurs (`Some(0)` for the zero polynomial).
+    pub fn as_constant(&self) -> Option<Q> {
+        match self.terms.len() {
+            0 => Some(Q::zero()),
+            1 => self.constant_term_if_alone(),
+            _ => None,
+        }
+    }
+
+    fn constant_term_if_alone(&self) -> Option<Q> {
+        let (key, c) = self.terms.iter().next()?;
+        key.0.is_one().then(|| c.clone())
+    }
+
+    pub fn variables(&self) -> BTreeSet<String> {
+        self.terms
+            .keys()
+            .flat_map(|key| key.0.factors().map(|(name, _)| name.to_string()))
+            .collect()
+    }
+
+    pub fn contains_var(&self, var: &str) -> bool {
+        self.terms.keys().any(|key| key.0.degree_in(var) > 0)
+    }
+
+    /// Total degree; 0 for constants and for the zero polynomial.
+    pub fn total_degree(&self) -> u32 {
+        self.leading_term().map_or(0, |(m, _)| m.degree())
+    }
+
+    /// Degree in one variable; 0 when it does not occur (and for the zero polynomial).
+    pub fn degree_in(&self, var: &str) -> u32 {
+        self.terms
+            .keys()
+            .map(|key| key.0.degree_in(var))
+            .max()
+            .unwrap_or(0)
+    }
+
+    /// Coefficients as a polynomial in `var`: `result[i]` multiplies `var^i`
+    /// (length degree + 1; empty for the zero polynomial).
+    pub fn coeffs_in(&self, var: &str) -> Vec<Poly> {
+        if self.is_zero() {
+            return Vec::new();
+        }
+        let mut coeffs = vec![Poly::zero(); self.degree_in(var) as usize + 1];
+        for (key, c) in &self.terms {
+            let (rest, e) = key.0.split_var(var);
+            coeffs[e as usize].add_term(rest, c.clone());
+        }
+        coeffs
+    }
+
+    /// Inverse of [`Poly::coeffs_in`]: `Σ coeffs[i] * var^i`.
+    pub fn from_coeffs_in(var: &str, coeffs: &[Poly]) -> Poly {
+        let mut p = Poly::zero();
+        for (i, coeff) in coeffs.iter().enumerate() {
+            let power = Monomial::from_factors([(var, i as u32)]);
+            for (m, c) in coeff.terms() {
+                p.add_term(m.mul(&power), c.clone());
+            }
+        }
+        p
+    }
+
+    /// Rational coefficients in `var` (`result[i]` multiplies `var^i`) when no other variable
+    /// occurs: the input [`rational_roots`](super::rational_roots) takes. Empty for zero.
+    pub fn univariate_coeffs(&self, var: &str) -> Option<Vec<Q>> {
+        self.coeffs_in(var).iter().map(Poly::as_constant).collect()
+    }
+
+    /// `Σ coeffs[i] * var^i`.
+    pub fn from_univariate(var: &str, coeffs: &[Q]) -> Poly {
+        Poly::from_terms(
+            coeffs
+                .iter()
+                .enumerate()
+                .map(|(i, c)| (Monomial::from_factors([(var, i as u32)]), c.clone())),
+        )
+    }
+
+    /// The coefficient of the highest power of `var` (zero for the zero polynomial).
+    pub fn leading_coeff_in(&self, var: &str) -> Poly {
+        self.coeffs_in(var).pop().unwrap_or_default()
+    }
+
+    /// Terms in the canonical order of [`Monomial::canonical_cmp`]: total degree descending,
+    /// then lexicographic with variables ranked by name (`a^2, a*b, b^2, a, b, 1`).
+    pub fn terms(&self) -> impl Iterator<Item = (&Monomial, &Q)> {
+        self.terms.iter().map(|(key, c)| (&key.0, c))
+    }
+
+    /// Number of non-zero terms.
+    pub fn term_count(&self) -> usize {
+        self.terms.len()
+    }
+
+    /// The first term in canonical order; `None` for zero.
+    pub fn leading_term(&self) -> Option<(&Monomial, &Q)> {
+        self.terms().next()
+    }
+
+    pub fn pow(&self, e: u32) -> Poly {
+        // Square-and-multiply (common practice).
+        let mut result = Poly::one();
+        let mut base = self.clone();
+        let mut e = e;
+        while e > 0 {
+            if e & 1 == 1 {
+                result = &result * &base;
+            }
+            e >>= 1;
+            if e > 0 {
+                base = &base * &base;
+            }
+        }
+        result
+    }
+
+    pub fn scale(&self, c: &Q) -> Poly {
+        if c.is_zero() {
+            return Poly::zero();
+        }
+        Poly {
+            terms: self
+                .terms
+                .iter()
+                .map(|(key, coeff)| (key.clone(), coeff * c))
+                .collect(),
+        }
+    }
+
+    /// Value with every variable bound; the first unbound variable (by name) is an error.
+    pub fn eval(&self, values: &BTreeMap<String, Q>) -> Result<Q, UnboundVariable> {
+        if let Some(missing) = self
+            .variables()
+            .into_iter()
+            .find(|v| !values.contains_key(v))
+        {
+            return Err(UnboundVariable(missing));
+        }
+        Ok(self
+            .eval_partial(values)
+            .as_constant()
+            .expect("every variable is bound"))
+    }
+
+    /// Substitutes values for the variables that have one; the others stay symbolic.
+    pub fn eval_partial(&self, values: &BTreeMap<String, Q>) -> Poly {
+        let mut result = Poly::zero();
+        for (m, c) in self.terms() {
+            let mut coeff = c.clone();
+            let mut kept = Vec::new();
+            for (name, e) in m.factors() {
+                match values.get(name) {
+                    Some(value) => coeff *= num_traits::pow(value.clone(), e as usize),
+                    None => kept.push((name, e)),
+                }
+            }
+            result.add_term(Monomial::from_factors(kept), coeff);
+        }
+        result
+    }
+
+    /// Replaces `var` by the polynomial `by` (Horner's scheme in `var`).
+    pub fn substitute(&self, var: &str, by: &Poly) -> Poly {
+        if !self.contains_var(var) {
+            return self.clone();
+        }
+        self.coeffs_in(var)
+            .iter()
+            .rev()
+            .fold(Poly::zero(), |acc, coeff| &(&acc * by) + coeff)
+    }
+
+    /// Partial derivative with respect to `var`.
+    pub fn derivative(&self, var: &str) -> Poly {
+        let mut result = Poly::zero();
+        for (m, c) in self.terms() {
+            let (rest, e) = m.split_var(var);
+            if e > 0 {
+                let lowered = rest.mul(&Monomial::from_factors([(var, e - 1)]));
+                result.add_term(lowered, c * Q::from_integer(BigInt::from(e)));
+            }
+        }
+        result
+    }
+
+    /// `(c, primitive)` with `self = c * primitive`, `primitive` having coprime integer
+    /// coefficients and a positive leading coefficient (so `c` has the sign of the leading
+    /// coefficient). Zero gives `(0, 0)`.
+    pub fn content_and_primitive(&self) -> (Q, Poly) {
+        let Some((_, lead)) = self.leading_term() else {
+            return (Q::zero(), Poly::zero());
+        };
+        // Content of a rational polynomial: gcd of numerators over lcm of denominators
+        // (common practice).
+        let mut numer_gcd = BigInt::zero();
+        let mut denom_lcm = BigInt::one();
+        for (_, c) in self.terms() {
+            numer_gcd = numer_gcd.gcd(c.numer());
+            denom_lcm = denom_lcm.lcm(c.denom());
+        }
+        let mut content = Q::new(numer_gcd, denom_lcm);
+        if lead.is_negative() {
+            content = -content;
+        }
+        let inverse = content.recip();
+        (content, self.scale(&inverse))
+    }
+
+    /// Exact quotient `self / divisor`, or `None` when the division leaves a remainder or the
+    /// divisor is zero.
+    pub fn div_exact(&self, divisor: &Poly) -> Option<Poly> {
+        let (divisor_monomial, divisor_coeff) = divisor.leading_term()?;
+        if let Some(c) = divisor.as_constant() {
+            return Some(self.scale(&c.recip()));
+        }
+        // Division by the leading term in a monomial order: if divisor | self, every
+        // intermediate remainder is a multiple of divisor, so its leading monomial must be
+        // divisible by the divisor's (Cox, Little, O'Shea, "Ideals, Varieties, and
+        // Algorithms", ch. 2 §3). Leading monomials strictly decrease, so the loop ends.
+        let mut remainder = self.clone();
+        let mut quotient = Poly::zero();
+        while let Some((m, c)) = remainder.leading_term() {
+            let factor_monomial = m.checked_div(divisor_monomial)?;
+            let factor_coeff = c / divisor_coeff;
+            for (dm, dc) in divisor.terms() {
+                remainder.add_term(factor_monomial.mul(dm), -(dc * &factor_coeff));
+            }
+            quotient.add_term(factor_monomial, factor_coeff);
+        }
+        Some(quotient)
+    }
+
+    /// Greatest common divisor, normalised: primitive with integer coefficients and a positive
+    /// leading coefficient; `gcd(0, 0) = 0`, and `gcd(c, p) = 1` for a non-zero constant `c`.
+    pub fn gcd(a: &Poly, b: &Poly) -> Poly {
+        super::gcd::gcd(a, b)
+    }
+}
+
+impl fmt::Display for Poly {
+    /// Plain text such as `2*rho^2 - rho + 1/2`, terms in canonical order.
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if self.is_zero() {
+            return write!(f, "0");
+        }
+        for (index, (m, c)) in self.terms().enumerate() {
+            let magnitude = c.abs();
+            match (index, c.is_negative()) {
+                (0, true) => write!(f, "-")?,
+                (0, false) => {}
+                (_, true) => write!(f, " - ")?,
+                (_, false) => write!(f, " + ")?,
+            }
+            if m.is_one() {
+                write!(f, "{magnitude}")?;
+            } else if magnitude.is_one() {
+                write!(f, "{m}")?;
+            } else {
+                write!(f, "{magnitude}*{m}")?;
+            }
+        }
+        Ok(())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::rational::q;
+
+    fn x() -> Poly {
+        Poly::var("x")
+    }
+    fn y() -> Poly {
+        Poly::var("y")
+    }
+    fn c(n: i64, d: i64) -> Poly {
+        Poly::constant(q(n, d))
+    }
+    fn values(pairs: &[(&str, Q)]) -> BTreeMap<String, Q> {
+        pairs
+            .iter()
+            .map(|(name, v)| (name.to_string(), v.clone()))
+            .collect()
+    }
+
+    #[test]
+    fn constants_and_zero() {
+        assert!(Poly::zero().is_zero());
+        assert!(Poly::one().is_one());
+        assert!(Poly::constant(Q::zero()).is_zero());
+        assert_eq!(Poly::from_integer(0), Poly::zero());
+        assert_eq!(Poly::zero().as_constant(), Some(Q::zero()));
+        assert_eq!(Poly::from_integer(-4).as_constant(), Some(q(-4, 1)));
+        assert_eq!(x().as_constant(), None);
+        assert_eq!((x() + c(1, 1)).as_constant(), None);
+        assert!(!x().is_one());
+        assert_eq!(Poly::zero().total_degree(), 0);
+        assert_eq!(Poly::zero().degree_in("x"), 0);
+        assert!(Poly::zero().variables().is_empty());
+    }
+
+    #[test]
+    fn variables_and_degrees() {
+        let p = x().pow(3) * y() + y().pow(2) + Poly::var("alpha");
+        let vars: Vec<_> = p.variables().into_iter().collect();
+        assert_eq!(vars, vec!["alpha", "x", "y"]);
+        assert!(p.contains_var("y"));
+        assert!(!p.contains_var("z"));
+        assert_eq!(p.total_degree(), 4);
+        assert_eq!(p.degree_in("x"), 3);
+        assert_eq!(p.degree_in("y"), 2);
+        assert_eq!(p.degree_in("z"), 0);
+        assert_eq!(p.term_count(), 3);
+    }
+
+    #[test]
+    fn coeffs_in_round_trip() {
+        // (y+1) x^2 - 3 x + y^2
+        let p = (y() + c(1, 1)) * x().pow(2) - c(3, 1) * x() + y().pow(2);
+        let coeffs = p.coeffs_in("x");
+        assert_eq!(coeffs, vec![y().pow(2), c(-3, 1), y() + c(1, 1)]);
+        assert_eq!(Poly::from_coeffs_in("x", &coeffs), p);
+        assert_eq!(p.leading_coeff_in("x"), y() + c(1, 1));
+        assert_eq!(p.coeffs_in("z"), vec![p.clone()]);
+        assert!(Poly::zero().coeffs_in("x").is_empty());
+        assert_eq!(Poly::from_coeffs_in("x", &[]), Poly::zero());
+        assert_eq!(Poly::zero().leading_coeff_in("x"), Poly::zero());
+    }
+
+    #[test]
+    fn univariate_round_trip() {
+        let k = Poly::var("k");
+        let p = c(6, 1) * k.pow(2) - c(1, 2);
+        let coeffs = p.univariate_coeffs("k").unwrap();
+        assert_eq!(coeffs, vec![q(-1, 2), Q::zero(), q(6, 1)]);
+        assert_eq!(Poly::from_univariate("k", &coeffs), p);
+        assert_eq!((&p * &x()).univariate_coeffs("k"), None);
+        assert_eq!(Poly::zero().univariate_coeffs("k"), Some(vec![]));
+        assert_eq!(c(3, 1).univariate_coeffs("k"), Some(vec![q(3, 1)]));
+    }
+
+    #[test]
+    fn terms_follow_canonical_order() {
+        let p = y().pow(2) + x() * y() + x().pow(2) + y() + x() + c(7, 1);
+        let listed: Vec<String> = p.terms().map(|(m, _)| m.to_string()).collect();
+        assert_eq!(listed, vec!["x^2", "x*y", "y^2", "x", "y", "1"]);
+        let (lead, coeff) = p.leading_term().unwrap();
+        assert_eq!(
+            (lead.to_string(), coeff.clone()),
+            ("x^2".to_string(), q(1, 1))
+        );
+        assert!(Poly::zero().leading_term().is_none());
+    }
+
+    #[test]
+    fn display_plain_text() {
+        let rho = Poly::var("rho");
+        let p = c(2, 1) * rho.pow(2) - rho.clone() + c(1, 2);
+        assert_eq!(p.to_string(), "2*rho^2 - rho + 1/2");
+        assert_eq!((-p).to_string(), "-2*rho^2 + rho - 1/2");
+        assert_eq!(Poly::zero().to_string(), "0");
+        assert_eq!(c(-3, 4).to_string(), "-3/4");
+        assert_eq!((c(1, 3) * rho * x()).to_string(), "1/3*rho*x");
+    }
+
+    #[test]
+    fn pow_and_scale() {
+        // (x + 1)^3 = x^3 + 3x^2 + 3x + 1 (binomial theorem).
+        let p = (x() + c(1, 1)).pow(3);
+        assert_eq!(
+            p,
+            x().pow(3) + c(3, 1) * x().pow(2) + c(3, 1) * x() + c(1, 1)
+        );
+        assert_eq!(x().pow(0), Poly::one());
+        assert_eq!(Poly::zero().pow(0), Poly::one());
+        assert_eq!(Poly::zero().pow(2), Poly::zero());
+        assert_eq!(p.scale(&Q::zero()), Poly::zero());
+        assert_eq!(x().scale(&q(-1, 2)), c(-1, 2) * x());
+    }
+
+    #[test]
+    fn eval_and_unbound() {
+        let p = x().pow(2) * y() - c(1, 2);
+        let v = values(&[("x", q(3, 1)), ("y", q(1, 3))]);
+        assert_eq!(p.eval(&v), Ok(q(5, 2)));
+        let partial = values(&[("y", q(2, 1))]);
+        assert_eq!(p.eval(&partial), Err(UnboundVariable("x".to_string())));
+        assert_eq!(Poly::from_integer(5).eval(&BTreeMap::new()), Ok(q(5, 1)));
+        assert_eq!(Poly::zero().eval(&BTreeMap::new()), Ok(Q::zero()));
+    }
+
+    #[test]
+    fn eval_partial_keeps_free_variables() {
+        let p = x().pow(2) * y() + x() * y() - c(1, 2);
+        let partial = values(&[("y", q(2, 1)), ("unused", q(9, 1))]);
+        assert_eq!(
+            p.eval_partial(&partial),
+            c(2, 1) * x().pow(2) + c(2, 1) * x() - c(1, 2)
+        );
+        // Cancellation after substitution drops the terms.
+        let cancels = x() * y() - x();
+        assert_eq!(
+            cancels.eval_partial(&values(&[("y", q(1, 1))])),
+            Poly::zero()
+        );
+    }
+
+    #[test]
+    fn substitute_variable_by_polynomial() {
+        // (x^2 + x)[x := y - 1] = y^2 - y
+        let p = x().pow(2) + x();
+        assert_eq!(p.substitute("x", &(y() - c(1, 1))), y().pow(2) - y());
+        assert_eq!(p.substitute("z", &y()), p);
+        assert_eq!(p.substitute("x", &Poly::zero()), Poly::zero());
+    }
+
+    #[test]
+    fn derivative_in_one_variable() {
+        let p = x().pow(3) * y() + c(5, 1) * y();
+        assert_eq!(p.derivative("x"), c(3, 1) * x().pow(2) * y());
+        assert_eq!(p.derivative("y"), x().pow(3) + c(5, 1));
+        assert_eq!(p.derivative("z"), Poly::zero());
+    }
+
+    #[test]
+    fn content_and_primitive_part() {
+        let p = c(-3, 2) * x() + c(9, 4);
+        let (content, primitive) = p.content_and_primitive();
+        assert_eq!(content, q(-3, 4));
+        assert_eq!(primitive, c(2, 1) * x() - c(3, 1));
+        assert_eq!(primitive.scale(&content), p);
+        assert_eq!(
+            Poly::zero().content_and_primitive(),
+            (Q::zero(), Poly::zero())
+        );
+        assert_eq!(c(-5, 3).content_and_primitive(), (q(-5, 3), Poly::one()));
+    }
+
+    #[test]
+    fn exact_division() {
+        let a = x() + y();
+        let b = x() - c(2, 1) * y() + c(1, 3);
+        let product = &a * &b;
+        assert_eq!(product.div_exact(&a), Some(b.clone()));
+        assert_eq!(product.div_exact(&b), Some(a.clone()));
+        assert_eq!(product.div_exact(&c(1, 2)), Some(product.scale(&q(2, 1))));
+        assert_eq!(product.div_exact(&Poly::zero()), None);
+        assert_eq!(product.div_exact(&(x() + c(1, 1))), None);
+        assert_eq!(a.div_exact(&product), None);
+        assert_eq!(Poly::zero().div_exact(&a), Some(Poly::zero()));
+        assert_eq!(x().div_exact(&y()), None);
+    }
+}

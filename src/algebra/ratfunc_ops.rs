@@ -1,0 +1,298 @@
+//! Field operators for [`RatFunc`]: `+`, `-`, `*` for every owned/borrowed pairing, unary
+//! `-`, and the compound assignments. Division is [`RatFunc::checked_div`] only, so that a
+//! zero divisor is a value the caller must handle rather than a panic.
+
+use std::ops::{Add, AddAssign, Mul, MulAssign, Neg, Sub, SubAssign};
+
+use super::poly::Poly;
+use super::ratfunc::RatFunc;
+
+/// The operators below cancel every common factor themselves, so only the content of the
+/// denominator is left to normalise.
+fn canonical(num: Poly, den: Poly) -> RatFunc {
+    RatFunc::from_coprime(num, den)
+}
+
+/// Division by a gcd, which always divides.
+fn exact(p: &Poly, divisor: &Poly) -> Poly {
+    p.div_exact(divisor).expect("a gcd divides its arguments")
+}
+
+impl Add<&RatFunc> for &RatFunc {
+    type Output = RatFunc;
+    fn add(self, other: &RatFunc) -> RatFunc {
+        // Henrici's sum (Knuth, TAOCP vol. 2, §4.5.1): with g = gcd(b, d),
+        // a/b + c/d = (a·(d/g) + c·(b/g)) / ((b/g)·d), and since a/b, c/d are reduced, only
+        // gcd(numerator, g) can cancel, so the big gcd is never taken.
+        let (a, b, c, d) = (self.numer(), self.denom(), other.numer(), other.denom());
+        let g = Poly::gcd(b, d);
+        let b_rest = exact(b, &g);
+        let d_rest = exact(d, &g);
+        let num = a * &d_rest + c * &b_rest;
+        let h = Poly::gcd(&num, &g);
+        canonical(exact(&num, &h), &b_rest * &exact(d, &h))
+    }
+}
+
+impl Sub<&RatFunc> for &RatFunc {
+    type Output = RatFunc;
+    fn sub(self, other: &RatFunc) -> RatFunc {
+        self + &(-other)
+    }
+}
+
+impl Mul<&RatFunc> for &RatFunc {
+    type Output = RatFunc;
+    fn mul(self, other: &RatFunc) -> RatFunc {
+        // Cross-cancel before multiplying (Knuth, TAOCP vol. 2, §4.5.1): with both factors
+        // reduced, (a/b)(c/d) = ((a/g1)(c/g2)) / ((b/g2)(d/g1)) for g1 = gcd(a, d),
+        // g2 = gcd(c, b) is reduced as well.
+        let (a, b, c, d) = (self.numer(), self.denom(), other.numer(), other.denom());
+        let g1 = Poly::gcd(a, d);
+        let g2 = Poly::gcd(c, b);
+        canonical(
+            &exact(a, &g1) * &exact(c, &g2),
+            &exact(b, &g2) * &exact(d, &g1),
+        )
+    }
+}
+
+impl Neg for &RatFunc {
+    type Output = RatFunc;
+    fn neg(self) -> RatFunc {
+        // Negating the numerator keeps the canonical form.
+        canonical(-self.numer(), self.denom().clone())
+    }
+}
+
+impl Neg for RatFunc {
+    type Output = RatFunc;
+    fn neg(self) -> RatFunc {
+        -&self
+    }
+}
+
+/// The owned forms of a binary operator and all assignment forms, delegating to `&a op &b`.
+macro_rules! owned_forms {
+    ($Trait:ident, $method:ident, $AssignTrait:ident, $assign_method:ident) => {
+        impl $Trait<RatFunc> for RatFunc {
+            type Output = RatFunc;
+            fn $method(self, other: RatFunc) -> RatFunc {
+                (&self).$method(&other)
+            }
+        }
+        impl $Trait<&RatFunc> for RatFunc {
+            type Output = RatFunc;
+            fn $method(self, other: &RatFunc) -> RatFunc {
+                (&self).$method(other)
+            }
+        }
+        impl $Trait<RatFunc> for &RatFunc {
+            type Output = RatFunc;
+            fn $method(self, other: RatFunc) -> RatFunc {
+                self.$method(&other)
+            }
+        }
+        impl $AssignTrait<&RatFunc> for RatFunc {
+            fn $assign_method(&mut self, other: &RatFunc) {
+                *self = (&*self).$method(other);
+            }
+        }
+        impl $AssignTrait<RatFunc> for RatFunc {
+            fn $assign_method(&mut self, other: RatFunc) {
+                *self = (&*self).$method(&other);
+            }
+        }
+    };
+}
+
+owned_forms!(Add, add, AddAssign, add_assign);
+owned_forms!(Sub, sub, SubAssign, sub_assign);
+owned_forms!(Mul, mul, MulAssign, mul_assign);
+
+#[cfg(test)]
+mod tests {
+    use std::collections::BTreeMap;
+
+    use crate::algebra::rational::q;
+    use crate::algebra::{EvalError, Poly, RatFunc, Q};
+
+    fn v(name: &str) -> RatFunc {
+        RatFunc::var(name)
+    }
+    fn c(n: i64) -> RatFunc {
+        RatFunc::from_integer(n)
+    }
+    fn p(name: &str) -> Poly {
+        Poly::var(name)
+    }
+    fn frac(num: Poly, den: Poly) -> RatFunc {
+        RatFunc::new(num, den).unwrap()
+    }
+
+    #[test]
+    fn sum_is_canonical() {
+        // 1 + 1/(1 - rho) = (2 - rho)/(1 - rho)
+        let rho = p("rho");
+        let one_minus = Poly::one() - &rho;
+        let lhs = c(1) + frac(Poly::one(), one_minus.clone());
+        let rhs = frac(Poly::from_integer(2) - &rho, one_minus);
+        assert_eq!(lhs, rhs);
+        // The denominator is normalised to a positive leading coefficient.
+        assert_eq!(lhs.denom(), &(&rho - Poly::one()));
+        assert_eq!(lhs.numer(), &(&rho - Poly::from_integer(2)));
+        assert_eq!(lhs.to_string(), "(rho - 2)/(rho - 1)");
+    }
+
+    #[test]
+    fn new_cancels_and_moves_content() {
+        let (x, y) = (p("x"), p("y"));
+        let r = frac((&x + &y) * &x, (&x + &y).scale(&q(-2, 3)));
+        assert_eq!(r.numer(), &x.scale(&q(-3, 2)));
+        assert_eq!(r.denom(), &Poly::one());
+        assert_eq!(r.as_poly(), Some(x.scale(&q(-3, 2))));
+        assert_eq!(RatFunc::new(x.clone(), Poly::zero()), None);
+        assert_eq!(RatFunc::new(Poly::zero(), x.clone()), Some(RatFunc::zero()));
+        assert_eq!(RatFunc::zero().denom(), &Poly::one());
+        let half_over_x = frac(Poly::one(), x.scale(&q(2, 1)));
+        assert_eq!(half_over_x.numer(), &Poly::constant(q(1, 2)));
+        assert_eq!(half_over_x.denom(), &x);
+        assert_eq!(half_over_x.as_poly(), None);
+    }
+
+    #[test]
+    fn constants_and_queries() {
+        assert!(RatFunc::zero().is_zero());
+        assert!(RatFunc::one().is_one());
+        assert_eq!(RatFunc::constant(q(3, 4)).as_constant(), Some(q(3, 4)));
+        assert_eq!(RatFunc::from_integer(-2).as_constant(), Some(q(-2, 1)));
+        assert_eq!(v("x").as_constant(), None);
+        assert_eq!(c(1).checked_div(&v("x")).unwrap().as_constant(), None);
+        let r = v("alpha").checked_div(&(v("k") + c(1))).unwrap();
+        let vars: Vec<_> = r.variables().into_iter().collect();
+        assert_eq!(vars, vec!["alpha", "k"]);
+        assert!(r.contains_var("k"));
+        assert!(!r.contains_var("rho"));
+        assert_eq!(RatFunc::from_poly(p("x")), v("x"));
+        assert!(!v("x").is_one());
+    }
+
+    #[test]
+    fn inverse_and_division() {
+        let x = v("x");
+        assert_eq!(RatFunc::zero().inv(), None);
+        assert_eq!(x.checked_div(&RatFunc::zero()), None);
+        let r = (&x + c(1)).checked_div(&(&x - c(1))).unwrap();
+        assert_eq!(
+            r.inv().unwrap(),
+            (&x - c(1)).checked_div(&(&x + c(1))).unwrap()
+        );
+        assert_eq!(&r * &r.inv().unwrap(), RatFunc::one());
+        assert_eq!(c(-2).inv(), Some(RatFunc::constant(q(-1, 2))));
+    }
+
+    #[test]
+    fn integer_powers() {
+        let x = v("x");
+        let r = c(2).checked_div(&(&x + c(1))).unwrap();
+        assert_eq!(r.pow(0), Some(RatFunc::one()));
+        assert_eq!(r.pow(2).unwrap(), &r * &r);
+        assert_eq!(
+            r.pow(-2).unwrap(),
+            (&(&x + c(1)) * &(&x + c(1))).checked_div(&c(4)).unwrap()
+        );
+        assert_eq!(RatFunc::zero().pow(-1), None);
+        assert_eq!(RatFunc::zero().pow(0), Some(RatFunc::one()));
+        assert_eq!(RatFunc::zero().pow(3), Some(RatFunc::zero()));
+        // The canonical form survives powers: (-x)^(-1) = -1/x, with positive denominator.
+        let minus_inverse = (-&x).pow(-1).unwrap();
+        assert_eq!(minus_inverse.denom(), &p("x"));
+        assert_eq!(minus_inverse.numer(), &Poly::from_integer(-1));
+    }
+
+    #[test]
+    fn unbound_is_reported_by_name_before_division_by_zero() {
+        let r = v("z").checked_div(&(v("a") - c(1))).unwrap();
+        let mut values: BTreeMap<String, Q> = BTreeMap::new();
+        assert_eq!(r.eval(&values), Err(EvalError::Unbound("a".into())));
+        values.insert("a".into(), q(1, 1));
+        assert_eq!(r.eval(&values), Err(EvalError::Unbound("z".into())));
+        values.insert("z".into(), q(1, 1));
+        assert_eq!(r.eval(&values), Err(EvalError::DivisionByZero));
+        let (num, den) = r.into_parts();
+        assert_eq!((num, den), (p("z"), p("a") - Poly::one()));
+    }
+
+    #[test]
+    fn evaluation() {
+        let (x, y) = (v("x"), v("y"));
+        let r = (&x + &y).checked_div(&(&x - c(1))).unwrap();
+        let mut values: BTreeMap<String, Q> = BTreeMap::new();
+        values.insert("x".into(), q(3, 1));
+        assert_eq!(r.eval(&values), Err(EvalError::Unbound("y".into())));
+        assert_eq!(
+            r.eval_partial(&values),
+            Ok((&y + c(3)).checked_div(&c(2)).unwrap())
+        );
+        values.insert("y".into(), q(1, 2));
+        assert_eq!(r.eval(&values), Ok(q(7, 4)));
+        values.insert("x".into(), q(1, 1));
+        assert_eq!(r.eval(&values), Err(EvalError::DivisionByZero));
+        assert_eq!(r.eval_partial(&values), Err(EvalError::DivisionByZero));
+    }
+
+    #[test]
+    fn substitution() {
+        let (x, y) = (v("x"), v("y"));
+        // x/(x + 1) with x := 1/y gives 1/(1 + y).
+        let r = x.checked_div(&(&x + c(1))).unwrap();
+        let by = c(1).checked_div(&y).unwrap();
+        assert_eq!(r.substitute("x", &by), c(1).checked_div(&(&y + c(1))));
+        // 1/(x - 1) with x := 1 has an identically zero denominator.
+        let pole = c(1).checked_div(&(&x - c(1))).unwrap();
+        assert_eq!(pole.substitute("x", &c(1)), None);
+        assert_eq!(pole.substitute("z", &c(1)), Some(pole.clone()));
+        assert_eq!(r.substitute("x", &RatFunc::zero()), Some(RatFunc::zero()));
+    }
+
+    #[test]
+    fn operand_forms_and_assignment() {
+        let a = v("x").checked_div(&v("y")).unwrap();
+        let b = c(1) - v("y");
+        let sum = &a + &b;
+        assert_eq!(a.clone() + b.clone(), sum);
+        assert_eq!(a.clone() + &b, sum);
+        assert_eq!(&a + b.clone(), sum);
+        assert_eq!(&sum - &b, a);
+        assert_eq!(sum.clone() - b.clone(), a);
+        assert_eq!(-(-a.clone()), a);
+        let mut acc = a.clone();
+        acc += &b;
+        acc -= b.clone();
+        acc *= c(2);
+        acc *= &c(1);
+        assert_eq!(acc, &a + &a);
+    }
+
+    #[test]
+    fn display() {
+        assert_eq!(RatFunc::zero().to_string(), "0");
+        assert_eq!(v("x").to_string(), "x");
+        assert_eq!(c(1).checked_div(&v("x")).unwrap().to_string(), "1/x");
+        assert_eq!(
+            c(1).checked_div(&(c(2) * v("x"))).unwrap().to_string(),
+            "(1/2)/x"
+        );
+        assert_eq!(
+            v("y")
+                .checked_div(&(v("x").pow(2).unwrap() + c(1)))
+                .unwrap()
+                .to_string(),
+            "y/(x^2 + 1)"
+        );
+        assert_eq!(
+            c(1).checked_div(&(v("x") * v("y"))).unwrap().to_string(),
+            "1/(x*y)"
+        );
+    }
+}

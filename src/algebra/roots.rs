@@ -1,0 +1,252 @@
+//! Rational roots of univariate polynomials with rational coefficients.
+//!
+//! After clearing denominators, a root `u/v` in lowest terms of a primitive integer
+//! polynomial has `v` dividing the leading coefficient `L` (rational root theorem), so `L·r`
+//! is an integer for every rational root `r`. Rather than enumerate divisors of the constant
+//! term (which needs factoring and can blow up), Sturm sequences locate the real roots of the
+//! square-free part, bisection narrows each to an interval shorter than `1/L`, and the single
+//! multiple of `1/L` inside, if any, is checked exactly.
+
+use num_bigint::BigInt;
+use num_traits::{One, Signed, Zero};
+
+use super::dense::{derivative, divide, evaluate, gcd, integer_primitive, trimmed};
+use super::rational::Q;
+
+/// Rational roots of `Σ coeffs[i] x^i`, each with its multiplicity, ascending by root, and the
+/// cofactor left after dividing them out (no rational roots; its leading coefficient is the
+/// input's), so that `poly = cofactor · Π (x - r)^m` exactly. Trailing zero coefficients are
+/// ignored; the zero polynomial gives no roots and an empty cofactor.
+pub fn rational_roots(coeffs: &[Q]) -> (Vec<(Q, u32)>, Vec<Q>) {
+    let poly = trimmed(coeffs.to_vec());
+    if poly.len() <= 1 {
+        return (Vec::new(), poly);
+    }
+    // p / gcd(p, p') keeps each distinct root once (characteristic 0; Geddes, Czapor,
+    // Labahn, "Algorithms for Computer Algebra", ch. 8).
+    let square_free = integer_primitive(&divide(&poly, &gcd(&poly, &derivative(&poly))).0);
+    let mut candidates = Vec::new();
+    search_roots(&square_free, &mut candidates);
+
+    let mut cofactor = poly;
+    let mut roots = Vec::with_capacity(candidates.len());
+    for root in candidates {
+        let mut multiplicity = 0;
+        while let Some(quotient) = divide_by_linear(&cofactor, &root) {
+            cofactor = quotient;
+            multiplicity += 1;
+        }
+        roots.push((root, multiplicity));
+    }
+    (roots, cofactor)
+}
+
+/// Finds the rational roots of a square-free primitive integer polynomial, ascending.
+fn search_roots(square_free: &[Q], out: &mut Vec<Q>) {
+    let chain = sturm_chain(square_free);
+    let lead = square_free.last().expect("non-constant").abs();
+    let bound = cauchy_bound(square_free);
+    let mut search = RootSearch {
+        poly: square_free,
+        chain: &chain,
+        lead: &lead,
+        out,
+    };
+    let (low, high) = (-bound.clone(), bound);
+    let (v_low, v_high) = (search.variations(&low), search.variations(&high));
+    search.bisect(low, v_low, high, v_high);
+}
+
+struct RootSearch<'a> {
+    poly: &'a [Q],
+    chain: &'a [Vec<Q>],
+    lead: &'a Q,
+    out: &'a mut Vec<Q>,
+}
+
+impl RootSearch<'_> {
+    /// Sign changes of the Sturm chain at `x`, zeros skipped. For a square-free polynomial,
+    /// `V(a) - V(b)` counts its distinct real roots in `(a, b]` (Sturm's theorem; Basu,
+    /// Pollack, Roy, "Algorithms in Real Algebraic Geometry", ch. 2). The half-open form holds
+    /// because V is right-continuous at a root of a square-free polynomial.
+    fn variations(&self, x: &Q) -> usize {
+        let signs = self
+            .chain
+            .iter()
+            .map(|p| evaluate(p, x))
+            .filter(|value| !value.is_zero())
+            .map(|value| value.is_positive())
+            .collect::<Vec<_>>();
+        signs.windows(2).filter(|pair| pair[0] != pair[1]).count()
+    }
+
+    /// Looks for rational roots in `(low, high]`, given the chain's variations at both ends.
+    fn bisect(&mut self, low: Q, v_low: usize, high: Q, v_high: usize) {
+        if v_low == v_high {
+            return;
+        }
+        // Every rational root is a multiple of 1/L; an interval shorter than 1/L holds at
+        // most one such multiple, namely floor(L·high)/L if it exceeds low.
+        let scaled_high = (self.lead * &high).floor();
+        if scaled_high <= self.lead * &low {
+            return;
+        }
+        if (&high - &low) * self.lead < Q::one() {
+            let candidate = scaled_high / self.lead;
+            if evaluate(self.poly, &candidate).is_zero() {
+                self.out.push(candidate);
+            }
+            return;
+        }
+        let middle = (&low + &high) / Q::from_integer(BigInt::from(2));
+        let v_middle = self.variations(&middle);
+        self.bisect(low, v_low, middle.clone(), v_middle);
+        self.bisect(middle, v_middle, high, v_high);
+    }
+}
+
+/// An integer strictly above every |root|: 1 + max |a_i / a_n| bounds them (Cauchy's root
+/// bound; Basu, Pollack, Roy, "Algorithms in Real Algebraic Geometry", ch. 10).
+fn cauchy_bound(p: &[Q]) -> Q {
+    let lead = p.last().expect("non-zero");
+    let largest = p[..p.len() - 1]
+        .iter()
+        .map(|a| (a / lead).abs())
+        .max()
+        .unwrap_or_else(Q::zero);
+    largest.floor() + Q::from_integer(BigInt::from(2))
+}
+
+/// `p, p', -rem(p, p'), ...` until the remainder vanishes (Sturm's sequence). Each member is
+/// rescaled by a positive constant, which keeps the signs and the numbers small.
+fn sturm_chain(p: &[Q]) -> Vec<Vec<Q>> {
+    let mut chain = vec![p.to_vec(), integer_primitive(&derivative(p))];
+    loop {
+        let n = chain.len();
+        let remainder = divide(&chain[n - 2], &chain[n - 1]).1;
+        if remainder.is_empty() {
+            return chain;
+        }
+        let negated: Vec<Q> = remainder.iter().map(|a| -a).collect();
+        chain.push(integer_primitive(&negated));
+    }
+}
+
+/// `p / (x - root)` when the division is exact (synthetic division).
+fn divide_by_linear(p: &[Q], root: &Q) -> Option<Vec<Q>> {
+    if p.len() <= 1 {
+        return None;
+    }
+    let mut quotient = vec![Q::zero(); p.len() - 1];
+    let mut carry = Q::zero();
+    for i in (1..p.len()).rev() {
+        carry = &carry * root + &p[i];
+        quotient[i - 1] = carry.clone();
+    }
+    (&carry * root + &p[0]).is_zero().then_some(quotient)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::rational::q;
+
+    fn ints(coeffs: &[i64]) -> Vec<Q> {
+        coeffs.iter().map(|&n| q(n, 1)).collect()
+    }
+
+    /// Expands `lead · Π (x - r)^m` into ascending coefficients.
+    fn expand(lead: Q, roots: &[(Q, u32)]) -> Vec<Q> {
+        let mut p = vec![lead];
+        for (r, m) in roots {
+            for _ in 0..*m {
+                let mut next = vec![Q::zero(); p.len() + 1];
+                for (i, a) in p.iter().enumerate() {
+                    next[i + 1] += a;
+                    next[i] -= a * r;
+                }
+                p = next;
+            }
+        }
+        p
+    }
+
+    #[test]
+    fn three_simple_roots() {
+        // 6x^3 - 11x^2 + 6x - 1 = (3x - 1)(2x - 1)(x - 1)
+        let (roots, cofactor) = rational_roots(&ints(&[-1, 6, -11, 6]));
+        assert_eq!(roots, vec![(q(1, 3), 1), (q(1, 2), 1), (q(1, 1), 1)]);
+        assert_eq!(cofactor, ints(&[6]));
+    }
+
+    #[test]
+    fn no_rational_roots() {
+        let (roots, cofactor) = rational_roots(&ints(&[1, 0, 1]));
+        assert!(roots.is_empty());
+        assert_eq!(cofactor, ints(&[1, 0, 1]));
+        // x^2 - 2: real roots, both irrational.
+        let (roots, cofactor) = rational_roots(&ints(&[-2, 0, 1]));
+        assert!(roots.is_empty());
+        assert_eq!(cofactor, ints(&[-2, 0, 1]));
+    }
+
+    #[test]
+    fn repeated_root() {
+        // (x - 2)^2 (x + 1/2) = x^3 - 7/2 x^2 + 2x + 2
+        let p = vec![q(2, 1), q(2, 1), q(-7, 2), q(1, 1)];
+        let (roots, cofactor) = rational_roots(&p);
+        assert_eq!(roots, vec![(q(-1, 2), 1), (q(2, 1), 2)]);
+        assert_eq!(cofactor, ints(&[1]));
+    }
+
+    #[test]
+    fn zero_root_and_irreducible_cofactor() {
+        // x^2 (x - 3/4) (x^2 + x + 1) · 5
+        let mut p = expand(q(5, 1), &[(Q::zero(), 2), (q(3, 4), 1)]);
+        p = multiply(&p, &ints(&[1, 1, 1]));
+        let (roots, cofactor) = rational_roots(&p);
+        assert_eq!(roots, vec![(Q::zero(), 2), (q(3, 4), 1)]);
+        assert_eq!(cofactor, ints(&[5, 5, 5]));
+    }
+
+    #[test]
+    fn degenerate_inputs() {
+        assert_eq!(rational_roots(&[]), (vec![], vec![]));
+        assert_eq!(rational_roots(&ints(&[0, 0])), (vec![], vec![]));
+        assert_eq!(rational_roots(&ints(&[7, 0])), (vec![], ints(&[7])));
+        // Linear: 2x + 3 has the root -3/2; the cofactor is the leading coefficient.
+        assert_eq!(
+            rational_roots(&ints(&[3, 2])),
+            (vec![(q(-3, 2), 1)], ints(&[2]))
+        );
+    }
+
+    #[test]
+    fn large_coefficients_without_factoring() {
+        // Roots 1234567891/1000 and -987654321/1024: divisor enumeration of the constant
+        // term would be slow; the search only needs the leading coefficient.
+        let roots = vec![(q(-987_654_321, 1024), 1), (q(1_234_567_891, 1000), 3)];
+        let p = multiply(&expand(q(3, 7), &roots), &ints(&[3, 0, 1]));
+        let (found, cofactor) = rational_roots(&p);
+        assert_eq!(found, roots);
+        assert_eq!(cofactor, vec![q(9, 7), Q::zero(), q(3, 7)]);
+    }
+
+    #[test]
+    fn close_roots_are_separated() {
+        let roots = vec![(q(1, 1000), 1), (q(1, 999), 2), (q(1, 998), 1)];
+        let (found, cofactor) = rational_roots(&expand(q(-1, 1), &roots));
+        assert_eq!(found, roots);
+        assert_eq!(cofactor, ints(&[-1]));
+    }
+
+    fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
+        let mut out = vec![Q::zero(); a.len() + b.len() - 1];
+        for (i, x) in a.iter().enumerate() {
+            for (j, y) in b.iter().enumerate() {
+                out[i + j] += x * y;
+            }
+        }
+        out
+    }
+}
