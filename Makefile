@@ -1,0 +1,30 @@
+# Entry points for a fresh machine that has only the Rust toolchain and a C compiler.
+# `rug` builds GMP and MPFR from source, which needs GNU m4; `setup` installs it when missing.
+
+.PHONY: setup example test bench lint
+
+setup:
+	@command -v m4 >/dev/null 2>&1 || { \
+	  if [ "$$(id -u)" = 0 ] && command -v apt-get >/dev/null 2>&1; then \
+	    echo "installing m4 (needed to build GMP/MPFR for rug)"; \
+	    (apt-get install -y m4 >/dev/null 2>&1 || { apt-get update >/dev/null 2>&1 && apt-get install -y m4 >/dev/null 2>&1; }) \
+	      || { echo "error: could not install m4 with apt-get"; exit 1; }; \
+	  else \
+	    echo "error: GNU m4 is missing; rug's GMP/MPFR build needs it."; \
+	    echo "       install it with your package manager (e.g. sudo apt-get install m4) and rerun"; \
+	    exit 1; \
+	  fi; }
+
+example: setup
+	cargo run --release --quiet -- solve examples/citation_growth.rule
+	cargo run --release --quiet -- table examples/citation_growth.rule --param rho=3/10 --k 1..12 --digits 40
+
+test: setup
+	cargo test
+
+bench: setup
+	cargo bench
+
+lint: setup
+	cargo fmt --all -- --check
+	cargo clippy --all-targets -- -D warnings

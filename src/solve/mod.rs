@@ -1,0 +1,55 @@
+//! From a ratio in factor normal form to a closed form with its support and conditions.
+//!
+//! `telescope` does the product `Π_{j=b+1..k} R(j)` factor by factor (DLMF 5.2.5 for the
+//! rising products, the reflected form for factors written `β − k`); `support` finds where the
+//! sequence ends and which parameter values the result excludes.
+
+mod support;
+mod telescope;
+
+pub use support::{Condition, ConditionKind, Status, Support, SupportEnd};
+pub use telescope::telescope;
+
+use std::collections::BTreeMap;
+
+use num_bigint::BigInt;
+
+use crate::algebra::Q;
+use crate::closed_form::ClosedForm;
+use crate::diagnostic::Diagnostic;
+use crate::model::Problem;
+use crate::ratio::Ratio;
+
+/// Everything `solve` knows about a rule.
+#[derive(Clone, Debug)]
+pub struct Solution {
+    pub sequence: String,
+    pub base_index: BigInt,
+    /// The ratio actually telescoped (orientation adjusted to keep Gamma arguments off poles).
+    pub ratio: Ratio,
+    /// The telescoped Gamma-quotient form.
+    pub closed_form: ClosedForm,
+    pub support: Support,
+    pub conditions: Vec<Condition>,
+    /// Parameter values the user supplied (used to decide conditions and the support).
+    pub values: BTreeMap<String, Q>,
+}
+
+/// Solves `problem`; `values` may fix some or all parameters (`--param`).
+pub fn solve(problem: &Problem, values: &BTreeMap<String, Q>) -> Result<Solution, Diagnostic> {
+    let base_index = problem.base_index();
+    let (ratio, sign_flips) =
+        telescope::orient_for_poles(&problem.ratio, &problem.first_index, values);
+    let support = support::find_support(problem, &ratio, values)?;
+    let conditions = support::conditions(problem, &ratio, values)?;
+    let closed_form = telescope(&problem.sequence, &ratio, &base_index, sign_flips);
+    Ok(Solution {
+        sequence: problem.sequence.clone(),
+        base_index,
+        ratio,
+        closed_form,
+        support,
+        conditions,
+        values: values.clone(),
+    })
+}

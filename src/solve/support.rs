@@ -1,0 +1,300 @@
+//! Where the sequence lives and when the closed form is valid.
+
+use std::collections::BTreeMap;
+
+use num_bigint::BigInt;
+use num_traits::Zero;
+
+use crate::algebra::{rational_roots, Poly, RatFunc, Q};
+use crate::diagnostic::Diagnostic;
+use crate::model::Problem;
+use crate::ratio::{LinearFactor, Ratio};
+
+use super::telescope::numeric_shift;
+
+/// The index range on which a(k) is non-zero.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Support {
+    /// The base index b.
+    pub first: BigInt,
+    pub last: SupportEnd,
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub enum SupportEnd {
+    /// a(k) ≠ 0 for every k ≥ b (given the conditions).
+    Infinite,
+    /// The last non-zero term.
+    At(BigInt),
+    /// Ends at `last` when `last + 1` is an integer ≥ the rule's first index; infinite otherwise.
+    /// `certain` is set when the parameters' declarations make `last` an integer.
+    Symbolic { last: RatFunc, certain: bool },
+}
+
+/// What must hold for the closed form to be right.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Condition {
+    pub kind: ConditionKind,
+    /// Why, in words (no formulas: renderers format `kind`).
+    pub reason: String,
+    pub status: Status,
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub enum ConditionKind {
+    /// expr ≠ 0
+    NonZero(RatFunc),
+    /// param ≠ value
+    NotEqual { param: String, value: Q },
+    /// expr ∉ {min, min+1, min+2, …}
+    NotIntegerAtLeast { expr: RatFunc, min: BigInt },
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub enum Status {
+    /// Not decided from what is known.
+    Undecided,
+    /// Holds; the string says what settles it (`rho = 3/10`, `the range 0 < rho < 1`).
+    Holds(String),
+    /// Fails; the string says why.
+    Fails(String),
+}
+
+fn value_of(expr: &RatFunc, values: &BTreeMap<String, Q>) -> Option<Q> {
+    numeric_shift(expr, values)
+}
+
+fn integer_at_least(q: &Q, min: &BigInt) -> bool {
+    q.is_integer() && q.to_integer() >= *min
+}
+
+/// Finds the last index of the support and refuses a denominator that vanishes inside it.
+pub fn find_support(
+    problem: &Problem,
+    ratio: &Ratio,
+    values: &BTreeMap<String, Q>,
+) -> Result<Support, Diagnostic> {
+    let first_index = &problem.first_index;
+    let mut end: Option<BigInt> = None;
+    let mut symbolic: Option<(RatFunc, bool)> = None;
+    for factor in ratio.numerator_factors() {
+        let root = factor.root();
+        match value_of(&root, values) {
+            Some(r) => {
+                if integer_at_least(&r, first_index) {
+                    let last = r.to_integer() - 1;
+                    end = Some(match end {
+                        Some(e) if e <= last => e,
+                        _ => last,
+                    });
+                }
+            }
+            None => {
+                if symbolic.is_none() {
+                    let certain = is_integer_valued(&root, problem);
+                    symbolic = Some((&root - &RatFunc::one(), certain));
+                }
+            }
+        }
+    }
+    for factor in ratio.denominator_factors() {
+        let root = factor.root();
+        if let Some(r) = value_of(&root, values) {
+            let inside = match &end {
+                Some(e) => r.is_integer() && r.to_integer() <= e + 1,
+                None => true,
+            };
+            if integer_at_least(&r, first_index) && inside {
+                return Err(vanishing_denominator(problem, factor, &r));
+            }
+        }
+    }
+    let last = match (end, symbolic) {
+        (Some(e), _) => SupportEnd::At(e),
+        (None, Some((last, certain))) => SupportEnd::Symbolic { last, certain },
+        (None, None) => SupportEnd::Infinite,
+    };
+    Ok(Support {
+        first: problem.base_index(),
+        last,
+    })
+}
+
+fn vanishing_denominator(problem: &Problem, factor: &LinearFactor, root: &Q) -> Diagnostic {
+    let span = factor.span.clone().unwrap_or(problem.rule_span.clone());
+    let k = root.to_integer();
+    Diagnostic::new(
+        format!(
+            "the rule divides by zero at k = {k}: this factor of the denominator vanishes there"
+        ),
+        span,
+    )
+    .with_help(format!(
+        "a(k)/a(k-1) is undefined at k = {k}; start the rule later (`for k >= {}`) or check the factor",
+        &k + 1
+    ))
+}
+
+/// True when every variable of `expr` is a declared integer parameter and `expr` is a
+/// polynomial with integer coefficients.
+fn is_integer_valued(expr: &RatFunc, problem: &Problem) -> bool {
+    let Some(poly) = expr.as_poly() else {
+        return false;
+    };
+    let all_integer_params = poly
+        .variables()
+        .iter()
+        .all(|v| problem.param(v).map(|p| p.integer).unwrap_or(false));
+    all_integer_params && poly.terms().all(|(_, c)| c.is_integer())
+}
+
+/// The conditions under which the closed form holds, decided where the values allow.
+pub fn conditions(
+    problem: &Problem,
+    ratio: &Ratio,
+    values: &BTreeMap<String, Q>,
+) -> Result<Vec<Condition>, Diagnostic> {
+    let mut out: Vec<Condition> = Vec::new();
+    // Every parameter polynomial the rule divides by must not vanish.
+    let mut divisors: Vec<Poly> = problem.divisors.iter().map(|(p, _)| p.clone()).collect();
+    divisors.push(ratio.constant.denom().clone());
+    for factor in &ratio.factors {
+        divisors.push(factor.shift.denom().clone());
+    }
+    let mut seen: Vec<Poly> = Vec::new();
+    for divisor in divisors {
+        if divisor.as_constant().is_some() {
+            continue;
+        }
+        let (_, primitive) = divisor.content_and_primitive();
+        if seen.contains(&primitive) {
+            continue;
+        }
+        seen.push(primitive.clone());
+        for kind in nonzero_conditions(&primitive) {
+            push_unique(
+                &mut out,
+                kind,
+                "the rule's coefficients divide by this expression",
+                values,
+            );
+        }
+    }
+    // A vanishing constant would make every term after the base zero.
+    if ratio.constant.as_constant().is_none() {
+        let (_, primitive) = ratio.constant.numer().content_and_primitive();
+        for kind in nonzero_conditions(&primitive) {
+            push_unique(
+                &mut out,
+                kind,
+                "otherwise the constant factor of the rule is zero and the sequence stops at the base term",
+                values,
+            );
+        }
+    }
+    // Denominator factors must not vanish at an integer k in the rule's range.
+    for factor in ratio.denominator_factors() {
+        let root = factor.root();
+        if root.as_constant().is_some() {
+            continue;
+        }
+        let kind = ConditionKind::NotIntegerAtLeast {
+            expr: root,
+            min: problem.first_index.clone(),
+        };
+        push_unique(
+            &mut out,
+            kind,
+            "a factor of the rule's denominator would vanish at that k",
+            values,
+        );
+    }
+    for condition in &out {
+        if let Status::Fails(why) = &condition.status {
+            return Err(Diagnostic::new(
+                format!("the parameter values break a condition of the rule: {why}"),
+                problem.rule_span.clone(),
+            )
+            .with_help("choose other values with --param"));
+        }
+    }
+    Ok(out)
+}
+
+fn push_unique(
+    out: &mut Vec<Condition>,
+    kind: ConditionKind,
+    reason: &str,
+    values: &BTreeMap<String, Q>,
+) {
+    if out.iter().any(|c| c.kind == kind) {
+        return;
+    }
+    let status = decide(&kind, values);
+    out.push(Condition {
+        kind,
+        reason: reason.to_string(),
+        status,
+    });
+}
+
+/// Turns `p ≠ 0` into `param ≠ root` conditions when p is univariate with rational roots.
+fn nonzero_conditions(p: &Poly) -> Vec<ConditionKind> {
+    let variables = p.variables();
+    if variables.len() == 1 {
+        let var = variables.iter().next().unwrap().clone();
+        let coeffs: Vec<Q> = p
+            .coeffs_in(&var)
+            .iter()
+            .map(|c| c.as_constant().unwrap_or_else(Q::zero))
+            .collect();
+        let (roots, cofactor) = rational_roots(&coeffs);
+        let mut out: Vec<ConditionKind> = roots
+            .into_iter()
+            .map(|(value, _)| ConditionKind::NotEqual {
+                param: var.clone(),
+                value,
+            })
+            .collect();
+        if cofactor.len() > 1 {
+            let rest: Vec<Poly> = cofactor.into_iter().map(Poly::constant).collect();
+            out.push(ConditionKind::NonZero(RatFunc::from_poly(
+                Poly::from_coeffs_in(&var, &rest),
+            )));
+        }
+        return out;
+    }
+    vec![ConditionKind::NonZero(RatFunc::from_poly(p.clone()))]
+}
+
+fn decide(kind: &ConditionKind, values: &BTreeMap<String, Q>) -> Status {
+    let shown = |vars: &std::collections::BTreeSet<String>| -> String {
+        vars.iter()
+            .filter_map(|v| values.get(v).map(|q| format!("{v} = {q}")))
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    match kind {
+        ConditionKind::NonZero(expr) => match expr.eval(values) {
+            Ok(v) if v.is_zero() => Status::Fails(format!(
+                "{} makes a divisor of the rule zero",
+                shown(&expr.variables())
+            )),
+            Ok(_) => Status::Holds(shown(&expr.variables())),
+            Err(_) => Status::Undecided,
+        },
+        ConditionKind::NotEqual { param, value } => match values.get(param) {
+            Some(v) if v == value => Status::Fails(format!("{param} = {v} is excluded")),
+            Some(v) => Status::Holds(format!("{param} = {v}")),
+            None => Status::Undecided,
+        },
+        ConditionKind::NotIntegerAtLeast { expr, min } => match expr.eval(values) {
+            Ok(v) if integer_at_least(&v, min) => Status::Fails(format!(
+                "with {} a denominator factor vanishes at k = {v}",
+                shown(&expr.variables())
+            )),
+            Ok(_) => Status::Holds(shown(&expr.variables())),
+            Err(_) => Status::Undecided,
+        },
+    }
+}

@@ -1,0 +1,194 @@
+//! End-to-end behaviour through the `telescope` binary.
+
+use std::process::{Command, Output};
+
+fn telescope(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(args)
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .output()
+        .expect("binary runs")
+}
+
+fn stdout(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+const GROWTH: &str = "n(k)/n(k-1) = (1-rho)(k-1)/(1+(1-rho)k)";
+
+#[test]
+fn solve_prints_a_gamma_quotient_with_base_support_and_conditions() {
+    let o = telescope(&["solve", GROWTH]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let out = stdout(&o);
+    assert!(out.contains("Γ("), "{out}");
+    assert!(out.contains("base term    n(1)"), "{out}");
+    assert!(out.contains("support      k ≥ 1"), "{out}");
+    assert!(out.contains("ρ ≠ 1"), "{out}");
+}
+
+#[test]
+fn solve_json_has_the_contract_fields() {
+    let o = telescope(&["solve", GROWTH, "--format", "json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["sequence"], "n");
+    assert_eq!(v["base_index"], "1");
+    assert!(v["ratio"]["text"].is_string() && v["ratio"]["latex"].is_string());
+    assert!(v["closed_form"]["latex"]
+        .as_str()
+        .unwrap()
+        .contains("\\Gamma"));
+    assert_eq!(v["support"]["first"], "1");
+    assert!(v["support"]["last"].is_null());
+    assert!(!v["conditions"].as_array().unwrap().is_empty());
+}
+
+#[test]
+fn solve_latex_is_an_amsmath_block() {
+    let o = telescope(&["solve", GROWTH, "--format", "latex"]);
+    assert!(o.status.success());
+    let out = stdout(&o);
+    assert!(out.starts_with("\\begin{align*}"), "{out}");
+    assert!(out.contains("\\end{align*}"));
+    assert_eq!(out.matches('{').count(), out.matches('}').count(), "{out}");
+}
+
+#[test]
+fn table_at_fifty_digits_agrees_to_1e_45() {
+    let o = telescope(&[
+        "table", GROWTH, "--param", "rho=3/10", "--k", "1..2000", "--digits", "50", "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let max: f64 = v["max_rel_diff"].as_str().unwrap().parse().unwrap();
+    assert!(max < 1e-45, "max_rel_diff = {max}");
+    assert_eq!(v["rows"].as_array().unwrap().len(), 2000);
+    let checked = v["checked_rows"].as_array().unwrap();
+    assert_eq!(checked.first().unwrap(), "1");
+    assert_eq!(checked.last().unwrap(), "2000");
+    assert!(v["rows"][1]["closed"].is_string() || v["rows"][1]["closed"].is_null());
+}
+
+#[test]
+fn table_far_out_works() {
+    let o = telescope(&[
+        "table",
+        GROWTH,
+        "--param",
+        "rho=0.3",
+        "--k",
+        "1000000..1000010",
+        "--digits",
+        "50",
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let max: f64 = v["max_rel_diff"].as_str().unwrap().parse().unwrap();
+    assert!(max < 1e-45, "max_rel_diff = {max}");
+    assert_eq!(v["rows"].as_array().unwrap().len(), 11);
+}
+
+#[test]
+fn binomial_type_rule_stops_at_n() {
+    let o = telescope(&[
+        "solve",
+        "a(k)/a(k-1) = (N-k+1)/k * p/(1-p)  for k >= 1",
+        "--param",
+        "N=12",
+        "--param",
+        "p=3/10",
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["support"]["first"], "0");
+    assert_eq!(v["support"]["last"], "12");
+    let o = telescope(&[
+        "solve",
+        "a(k)/a(k-1) = (12-k+1)/k * p/(1-p)  for k >= 1",
+        "--format",
+        "json",
+    ]);
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["support"]["last"], "12");
+}
+
+#[test]
+fn a_denominator_vanishing_at_three_is_refused() {
+    let o = telescope(&["solve", "n(k)/n(k-1) = (k+1)/(k-3)"]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.contains("k = 3"), "{err}");
+    assert!(err.contains("column"), "{err}");
+}
+
+/// Ten malformed inputs: each exits with code 2 and points at a column.
+#[test]
+fn malformed_inputs_exit_2_with_a_column() {
+    let cases = [
+        "n(k)/n(k-1) = (k-1))",
+        "n(k)/n(k-1) = (k-1",
+        "n(k)/n(k-1) = k +",
+        "n(k)/n(k-1) = k $ 2",
+        "n(k)/n(k-1) = 1.2.3 k",
+        "n(k)/n(k-1) = (k^2+1)/(k+2)",
+        "n(k)/n(k-1) = Gamma(k)/k",
+        "n(k)/n(k-1) = (k-1)/(k-1-1)",
+        "n(k)/n(k-2) = k",
+        "n(k)/n(k-1) = k^(1/2)",
+        "n(k)/n(k-1) = (k-1)/k  for k >= ",
+        "n(k)/n(k-1) = n(k-1)/k",
+    ];
+    for input in cases {
+        let o = telescope(&["solve", input]);
+        assert_eq!(o.status.code(), Some(2), "{input}: {}", stdout(&o));
+        let err = stderr(&o);
+        assert!(err.contains("column"), "{input}: {err}");
+        assert!(err.contains('^'), "{input}: {err}");
+        assert!(!err.contains("panicked"), "{input}: {err}");
+    }
+}
+
+#[test]
+fn bad_arguments_exit_2() {
+    for args in [
+        vec!["table", GROWTH, "--k", "5..1", "--param", "rho=0.3"],
+        vec!["table", GROWTH, "--k", "1..10"],
+        vec!["table", GROWTH, "--k", "1..10", "--param", "sigma=1"],
+        vec!["table", GROWTH, "--k", "1..10", "--param", "rho=abc"],
+        vec!["solve", "examples/citation_growth.rule", "--param", "rho=2"],
+    ] {
+        let o = telescope(&args);
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        assert!(stderr(&o).starts_with("error:"), "{args:?}: {}", stderr(&o));
+    }
+}
+
+#[test]
+fn standard_input_is_read_with_a_dash() {
+    use std::io::Write;
+    let mut child = Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(["solve", "-"])
+        .stdin(std::process::Stdio::piped())
+        .stdout(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    child
+        .stdin
+        .take()
+        .unwrap()
+        .write_all(b"# a comment\nparam alpha > 0\np(k)/p(k-1) = (k-1)/(k+alpha)\n")
+        .unwrap();
+    let o = child.wait_with_output().unwrap();
+    assert!(o.status.success());
+    assert!(stdout(&o).contains("α"));
+}
