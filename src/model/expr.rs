@@ -64,7 +64,7 @@ pub struct ProductForm {
 }
 
 impl ProductForm {
-    fn constant(c: RatFunc) -> Self {
+    pub(crate) fn constant(c: RatFunc) -> Self {
         ProductForm {
             constant: c,
             factors: Vec::new(),
@@ -72,7 +72,7 @@ impl ProductForm {
         }
     }
 
-    fn times(mut self, other: ProductForm, sign: i32) -> ProductForm {
+    pub(crate) fn times(mut self, other: ProductForm, sign: i32) -> ProductForm {
         self.divisors.extend(other.divisors);
         for mut f in other.factors {
             f.exponent *= sign;
@@ -87,6 +87,28 @@ impl ProductForm {
                 .expect("divisor checked non-zero")
         };
         self
+    }
+
+    /// `self / other`, recording `other` as a divisor when it depends on parameters; `None`
+    /// when `other` is zero.
+    pub(crate) fn divided_by(self, mut other: ProductForm, span: Span) -> Option<ProductForm> {
+        if other.constant.is_zero() {
+            return None;
+        }
+        if other.constant.numer().as_constant().is_none() {
+            other.divisors.push((other.constant.numer().clone(), span));
+        }
+        Some(self.times(other, -1))
+    }
+
+    pub(crate) fn negated(mut self) -> ProductForm {
+        self.constant = -self.constant;
+        self
+    }
+
+    /// Whether the product is identically zero.
+    pub fn is_zero(&self) -> bool {
+        self.constant.is_zero()
     }
 
     /// Expands everything into one rational function of the index and the parameters.

@@ -1,14 +1,25 @@
-//! The meaning of the input: from a syntax tree to a [`Problem`] (sequence, parameters, the
-//! rule in factor normal form). Knows nothing of MPFR or rendering.
+//! The meaning of the input: from a syntax tree to a [`Model`] (sequence, parameters, the rule
+//! in factor normal form piece by piece, the boundary term, and how each ratio was derived
+//! from what was written) or, for one rule, a [`Problem`]. Knows nothing of MPFR or rendering.
 
+mod balance;
+mod boundary;
 mod build;
+mod derivation;
 mod expr;
+mod linear;
 mod normal_form;
+mod piecewise;
 mod problem;
+mod rates;
 
-pub use build::{build_problem, DEFAULT_FIRST_INDEX, DEFAULT_SEQUENCE};
+pub use build::{
+    build_model, build_problem, DEFAULT_FIRST_INDEX, DEFAULT_SEQUENCE, RATES_SEQUENCE,
+};
+pub use derivation::{Assumption, Derivation, RuleSource};
 pub use expr::{
     from_ratfunc, to_product, IndexFactor, Names, ProductForm, CONSTANT_NAMES, FUNCTION_NAMES,
 };
+pub use linear::{LinearForm, TermAt};
 pub use normal_form::normal_form;
-pub use problem::{Param, Problem};
+pub use problem::{Boundary, Model, Param, Piece, Problem, ResolvedPiece};
