@@ -17,6 +17,7 @@ pub mod closed_form;
 pub mod diagnostic;
 pub mod model;
 pub mod numeric;
+pub mod piecewise;
 pub mod ratio;
 pub mod render;
 pub mod session;
