@@ -4,7 +4,7 @@ use std::process::ExitCode;
 
 use clap::{Parser, Subcommand, ValueEnum};
 
-use telescope::algebra::Q;
+use telescope::piecewise::build_piecewise_table;
 use telescope::render;
 use telescope::session::{self, Error};
 use telescope::table::{build_table, TableRequest};
@@ -44,7 +44,7 @@ enum Command {
         /// Significant digits of every printed value.
         #[arg(long, default_value_t = 30)]
         digits: u32,
-        /// The base term's value a(b) (default 1).
+        /// The base term's value a(b) (default: the model's boundary equation, else 1).
         #[arg(long, value_name = "VALUE")]
         base: Option<String>,
         /// Check the closed form on every row, not a log-spaced sample.
@@ -80,13 +80,34 @@ fn run(cli: Cli) -> Result<String, Error> {
             format,
         } => {
             let input = session::read_input(&input)?;
-            let problem = session::load_problem(&input)?;
-            let values = session::parse_values(&problem, &params)?;
-            let solution = session::run_solve(&input, &problem, &values)?;
+            let model = session::load_model(&input)?;
+            let values = session::parse_values_for(&model.params, &params)?;
+            if model.is_piecewise() {
+                let solved = session::run_solve_model(&input, &model, &values)?;
+                return Ok(match format {
+                    SolveFormat::Text => render::piecewise_text(&model, &solved),
+                    SolveFormat::Latex => render::piecewise_latex(&model, &solved),
+                    SolveFormat::Json => pretty(&render::piecewise_json(&model, &solved)),
+                });
+            }
+            let solved = session::run_solve_model(&input, &model, &values)?;
+            let (problem, solution) = (&solved.pieces[0].problem, &solved.pieces[0].solution);
+            // The derivation (equation as written → ratio) comes before the solution.
+            let shown = render::has_derivation(&model);
             Ok(match format {
-                SolveFormat::Text => render::solve_text(&problem, &solution),
-                SolveFormat::Latex => render::solve_latex(&problem, &solution),
-                SolveFormat::Json => pretty(&render::solve_json(&problem, &solution)),
+                SolveFormat::Text if shown => {
+                    render::derivation_text(&model) + "\n" + &render::solve_text(problem, solution)
+                }
+                SolveFormat::Text => render::solve_text(problem, solution),
+                SolveFormat::Latex if shown => {
+                    render::derivation_latex(&model) + &render::solve_latex(problem, solution)
+                }
+                SolveFormat::Latex => render::solve_latex(problem, solution),
+                SolveFormat::Json => {
+                    let mut json = render::solve_json(problem, solution);
+                    json["derivation"] = render::derivation_json(&model);
+                    pretty(&json)
+                }
             })
         }
         Command::Table {
@@ -105,13 +126,10 @@ fn run(cli: Cli) -> Result<String, Error> {
             }
             let (from, to) = session::parse_k_range(&k)?;
             let input = session::read_input(&input)?;
-            let problem = session::load_problem(&input)?;
-            let values = session::parse_values(&problem, &params)?;
-            let base_value = match base {
-                Some(b) => session::parse_value("--base", &b)?,
-                None => Q::from_integer(1.into()),
-            };
-            let solution = session::run_solve(&input, &problem, &values)?;
+            let model = session::load_model(&input)?;
+            let values = session::parse_values_for(&model.params, &params)?;
+            let base_value = session::base_value(&model, &values, base.as_deref())?;
+            let solved = session::run_solve_model(&input, &model, &values)?;
             let request = TableRequest {
                 from,
                 to,
@@ -119,11 +137,19 @@ fn run(cli: Cli) -> Result<String, Error> {
                 base_value,
                 check_all,
             };
-            let table =
-                build_table(&problem, &solution, &request).map_err(|diagnostic| Error::Input {
-                    input: input.clone(),
-                    diagnostic,
-                })?;
+            let built = if model.is_piecewise() {
+                build_piecewise_table(&solved, &request, model.pieces[0].span.clone())
+            } else {
+                build_table(
+                    &solved.pieces[0].problem,
+                    &solved.pieces[0].solution,
+                    &request,
+                )
+            };
+            let table = built.map_err(|diagnostic| Error::Input {
+                input: input.clone(),
+                diagnostic,
+            })?;
             Ok(match format {
                 TableFormat::Text => render::table_text(&table),
                 TableFormat::Csv => render::table_csv(&table),

@@ -9,7 +9,8 @@ use num_bigint::BigInt;
 
 use crate::algebra::{parse_q, Q};
 use crate::diagnostic::Diagnostic;
-use crate::model::{build_problem, Problem};
+use crate::model::{build_model, build_problem, Model, Param, Problem};
+use crate::piecewise::{solve_model, ModelSolution};
 use crate::solve::{solve, Solution};
 
 /// The text of an input and the name to show in messages.
@@ -85,8 +86,21 @@ pub fn load_problem(input: &Input) -> Result<Problem, Error> {
     })
 }
 
+/// Parses and interprets a whole model (pieces, boundary, derivation).
+pub fn load_model(input: &Input) -> Result<Model, Error> {
+    build_model(&input.text).map_err(|diagnostic| Error::Input {
+        input: input.clone(),
+        diagnostic,
+    })
+}
+
 /// `NAME=VALUE` pairs, exact, checked against the model's parameters and declared ranges.
 pub fn parse_values(problem: &Problem, pairs: &[String]) -> Result<BTreeMap<String, Q>, Error> {
+    parse_values_for(&problem.params, pairs)
+}
+
+/// `NAME=VALUE` pairs checked against a list of parameters.
+pub fn parse_values_for(params: &[Param], pairs: &[String]) -> Result<BTreeMap<String, Q>, Error> {
     let mut values = BTreeMap::new();
     for pair in pairs {
         let Some((name, value)) = pair.split_once('=') else {
@@ -95,8 +109,8 @@ pub fn parse_values(problem: &Problem, pairs: &[String]) -> Result<BTreeMap<Stri
             )));
         };
         let (name, value) = (name.trim(), value.trim());
-        let Some(param) = problem.param(name) else {
-            let known: Vec<&str> = problem.params.iter().map(|p| p.name.as_str()).collect();
+        let Some(param) = params.iter().find(|p| p.name == name) else {
+            let known: Vec<&str> = params.iter().map(|p| p.name.as_str()).collect();
             let list = if known.is_empty() {
                 "none".to_string()
             } else {
@@ -160,4 +174,38 @@ pub fn run_solve(
         input: input.clone(),
         diagnostic,
     })
+}
+
+/// Solves every piece of a model with the given values; messages point into the input.
+pub fn run_solve_model(
+    input: &Input,
+    model: &Model,
+    values: &BTreeMap<String, Q>,
+) -> Result<ModelSolution, Error> {
+    solve_model(model, values).map_err(|diagnostic| Error::Input {
+        input: input.clone(),
+        diagnostic,
+    })
+}
+
+/// The base term's value: `--base`, else the model's boundary equation evaluated, else 1.
+pub fn base_value(
+    model: &Model,
+    values: &BTreeMap<String, Q>,
+    flag: Option<&str>,
+) -> Result<Q, Error> {
+    match (&model.boundary, flag) {
+        (Some(b), Some(_)) => Err(Error::Usage(format!(
+            "--base: the model fixes {}({}) by its boundary equation; drop --base or the equation",
+            model.sequence, b.index
+        ))),
+        (None, Some(text)) => parse_value("--base", text),
+        (Some(b), None) => b.value.eval(values).map_err(|e| {
+            Error::Usage(format!(
+                "the boundary value {}({}) cannot be evaluated with these parameters ({e}); give every parameter with --param",
+                model.sequence, b.index
+            ))
+        }),
+        (None, None) => Ok(Q::from_integer(1.into())),
+    }
 }

@@ -3,9 +3,9 @@
 
 use std::collections::BTreeMap;
 
-use telescope::model::build_problem;
+use telescope::model::build_model;
+use telescope::piecewise::solve_model;
 use telescope::render;
-use telescope::solve::solve;
 
 fn examples() -> Vec<(String, String)> {
     let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/examples");
@@ -28,19 +28,63 @@ fn every_example_renders_in_every_format() {
     let all = examples();
     assert!(all.len() >= 3);
     for (name, text) in all {
-        let problem = build_problem(&text).unwrap_or_else(|e| panic!("{name}: {e}"));
-        let solution = solve(&problem, &BTreeMap::new()).unwrap();
+        let model = build_model(&text).unwrap_or_else(|e| panic!("{name}: {e}"));
+        if model.is_piecewise() {
+            // Breakpoints need values; the example's own comment says which.
+            piecewise_snapshots(&name, &model);
+            continue;
+        }
+        let solved = solve_model(&model, &BTreeMap::new()).unwrap();
+        let (problem, solution) = (&solved.pieces[0].problem, &solved.pieces[0].solution);
+        if render::has_derivation(&model) {
+            insta::assert_snapshot!(
+                format!("{name}_derivation"),
+                render::derivation_text(&model) + &render::derivation_latex(&model)
+            );
+            insta::assert_json_snapshot!(
+                format!("{name}_derivation_json"),
+                render::derivation_json(&model)
+            );
+        }
         insta::assert_snapshot!(
             format!("{name}_text"),
-            render::solve_text(&problem, &solution)
+            render::solve_text(problem, solution)
         );
         insta::assert_snapshot!(
             format!("{name}_latex"),
-            render::solve_latex(&problem, &solution)
+            render::solve_latex(problem, solution)
         );
         insta::assert_json_snapshot!(
             format!("{name}_json"),
-            render::solve_json(&problem, &solution)
+            render::solve_json(problem, solution)
         );
     }
+}
+
+/// A piecewise example solved with every integer breakpoint parameter set to 3.
+fn piecewise_snapshots(name: &str, model: &telescope::model::Model) {
+    let values: BTreeMap<String, telescope::algebra::Q> = model
+        .params
+        .iter()
+        .filter(|p| p.integer)
+        .map(|p| {
+            (
+                p.name.clone(),
+                telescope::algebra::Q::from_integer(3.into()),
+            )
+        })
+        .collect();
+    let solved = solve_model(model, &values).unwrap_or_else(|e| panic!("{name}: {e}"));
+    insta::assert_snapshot!(
+        format!("{name}_text"),
+        render::piecewise_text(model, &solved)
+    );
+    insta::assert_snapshot!(
+        format!("{name}_latex"),
+        render::piecewise_latex(model, &solved)
+    );
+    insta::assert_json_snapshot!(
+        format!("{name}_json"),
+        render::piecewise_json(model, &solved)
+    );
 }

@@ -179,7 +179,7 @@ fn two_term(
         form,
         source: RuleSource::Balance {
             current: current.coefficient.clone(),
-            previous: previous.coefficient.clone(),
+            previous: previous.coefficient.clone().negated(),
         },
         assumptions: Vec::new(),
         index_shift,
@@ -209,8 +209,16 @@ fn three_term(
         )
         .with_help("check the signs and the shifts of the rates: the outflow of state k is the sum of its birth and death rates"));
     }
+    // Shown as 0 = λ(k−1)a(k−1) − (λ(k)+μ(k))a(k) + μ(k+1)a(k+1), whichever side it was on.
     let sign = if looks_negative(&c) { 1 } else { -1 };
     let scale = RatFunc::from_integer(sign);
+    let oriented = |f: &ProductForm| {
+        if sign < 0 {
+            f.clone().negated()
+        } else {
+            f.clone()
+        }
+    };
     check_factorable(previous, sequence, index)?;
     let death_at_k = super::linear::LinearTerm {
         at: TermAt::Shift(1),
@@ -229,9 +237,9 @@ fn three_term(
         ratio,
         form,
         source: RuleSource::BirthDeathBalance {
-            previous: previous.coefficient.clone(),
-            current: current.coefficient.clone(),
-            next: next.coefficient.clone(),
+            previous: oriented(&previous.coefficient),
+            current: oriented(&current.coefficient),
+            next: oriented(&next.coefficient),
             birth: &birth * &scale,
             death: &death * &scale,
         },

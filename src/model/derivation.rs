@@ -12,8 +12,8 @@ use super::expr::ProductForm;
 pub enum RuleSource {
     /// Written as a ratio (`n(k)/n(k-1) = R(k)` or a bare `R(k)`): nothing to derive.
     Ratio,
-    /// `current(k)·a(k) + previous(k)·a(k−1) = 0`, collected from a balance equation;
-    /// the ratio is `−previous/current`.
+    /// `current(k)·a(k) = previous(k)·a(k−1)`, collected from a balance equation; the ratio
+    /// is `previous/current`.
     Balance {
         current: ProductForm,
         previous: ProductForm,
