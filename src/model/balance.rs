@@ -199,16 +199,6 @@ fn three_term(
     // λ(k) = P(k+1), μ(k) = N(k−1); the form requires C(k) = −(λ(k) + μ(k)).
     let birth = shift_ratfunc(&p, index, 1);
     let death = shift_ratfunc(&n, index, -1);
-    let sum = &(&c + &birth) + &death;
-    if !sum.is_zero() {
-        return Err(Diagnostic::new(
-            format!(
-                "with {sequence}({index}+1) this must be the birth–death balance λ({index}−1){sequence}({index}−1) + μ({index}+1){sequence}({index}+1) − (λ({index}) + μ({index})){sequence}({index}) = 0, but the coefficient of {sequence}({index}) is not −(λ({index}) + μ({index})) for λ({index}) = {birth}, μ({index}) = {death} read from the other two terms"
-            ),
-            current.span.clone(),
-        )
-        .with_help("check the signs and the shifts of the rates: the outflow of state k is the sum of its birth and death rates"));
-    }
     // Shown as 0 = λ(k−1)a(k−1) − (λ(k)+μ(k))a(k) + μ(k+1)a(k+1), whichever side it was on.
     let sign = if looks_negative(&c) { 1 } else { -1 };
     let scale = RatFunc::from_integer(sign);
@@ -219,6 +209,17 @@ fn three_term(
             f.clone()
         }
     };
+    let sum = &(&c + &birth) + &death;
+    if !sum.is_zero() {
+        let (birth, death) = (&birth * &scale, &death * &scale);
+        return Err(Diagnostic::new(
+            format!(
+                "with {sequence}({index}+1) this must be the birth–death balance λ({index}−1){sequence}({index}−1) + μ({index}+1){sequence}({index}+1) − (λ({index}) + μ({index})){sequence}({index}) = 0, but the coefficient of {sequence}({index}) is not −(λ({index}) + μ({index})) for λ({index}) = {birth}, μ({index}) = {death} read from the other two terms"
+            ),
+            current.span.clone(),
+        )
+        .with_help("check the signs and the shifts of the rates: the outflow of state k is the sum of its birth and death rates"));
+    }
     check_factorable(previous, sequence, index)?;
     let death_at_k = super::linear::LinearTerm {
         at: TermAt::Shift(1),

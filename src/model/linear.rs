@@ -192,7 +192,7 @@ pub fn linear_form(e: &Expr, names: &mut Names) -> Result<LinearForm, Diagnostic
                         "a term of the sequence stands in a denominator",
                     )
                     .with_help(format!(
-                        "multiply out the denominator, e.g. write (k+2) {sequence}(k) = (k-1) {sequence}(k-1) instead of {sequence}(k)/{sequence}(k-1) = …"
+                        "multiply out the denominator; note that juxtaposition binds tighter than `/`, so `a/b {sequence}(k)` is a/(b·{sequence}(k)): write `a/b * {sequence}(k)`"
                     )));
                 }
                 let divisor = to_product(rhs, names)?;
