@@ -84,10 +84,13 @@ fn run(cli: Cli) -> Result<String, Error> {
             let values = session::parse_values_for(&model.params, &params)?;
             if model.is_piecewise() {
                 let solved = session::run_solve_model(&input, &model, &values)?;
+                let sum = session::model_sum(&model, &solved)?;
                 return Ok(match format {
-                    SolveFormat::Text => render::piecewise_text(&model, &solved),
+                    SolveFormat::Text => render::piecewise_text(&model, &solved, sum.as_ref()),
                     SolveFormat::Latex => render::piecewise_latex(&model, &solved),
-                    SolveFormat::Json => pretty(&render::piecewise_json(&model, &solved)),
+                    SolveFormat::Json => {
+                        pretty(&render::piecewise_json(&model, &solved, sum.as_ref()))
+                    }
                 });
             }
             let solved = session::run_solve_model(&input, &model, &values)?;

@@ -568,3 +568,82 @@ fn tail_sum(
     // Σ_{n≥1} r^n = r/(1 − r) for |r| < 1 (geometric series, DLMF 4.2.3 context; common practice)
     Ok(TailSum::Exact(start * &r / (Q::one() - &r)))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::q;
+    use crate::model::build_model;
+
+    fn desk(c: i64) -> ModelSolution {
+        let model = build_model(
+            "param c integer >= 1\na(k)/a(k-1) = 3/k for 1 <= k <= c\na(k)/a(k-1) = 3/c for k > c",
+        )
+        .unwrap();
+        let values: BTreeMap<String, Q> = [("c".to_string(), q(c, 1))].into_iter().collect();
+        solve_model(&model, &values).unwrap()
+    }
+
+    #[test]
+    fn the_exact_and_mpfr_chains_agree_across_the_breakpoint() {
+        let s = desk(4);
+        let mut exact = ChainedProduct::new(&s, &Q::one(), true, 40, 30);
+        let mut approx = ChainedProduct::new(&s, &Q::one(), false, 40, 30);
+        for _ in 0..30 {
+            exact.step().unwrap();
+            approx.step().unwrap();
+            let ChainValue::Exact(e) = exact.value() else {
+                panic!()
+            };
+            let ChainValue::Approx {
+                value,
+                rel_error_bound,
+            } = approx.value()
+            else {
+                panic!()
+            };
+            let rel = value.rel_diff(&LogReal::from_rational(&e, 300), 64);
+            assert!(
+                rel <= rel_error_bound,
+                "k = {}: {rel} > {rel_error_bound}",
+                exact.index()
+            );
+            assert!(rel_error_bound < 1e-40f64);
+        }
+        assert_eq!(exact.index(), BigInt::from(30));
+        // a(5) = a(4)·3/4 with a(4) = 3^4/4! (the rule as written; arithmetic by hand)
+        let terms = exact_terms(&s, &Q::one(), &BigInt::from(5)).unwrap();
+        assert_eq!(terms[4], q(81, 24));
+        assert_eq!(terms[5], q(81, 24) * q(3, 4));
+    }
+
+    #[test]
+    fn the_joined_closed_form_matches_the_exact_terms() {
+        let s = desk(3);
+        let closed = PiecewiseEvaluator::new(&s, &q(2, 1), 30).unwrap();
+        let terms = exact_terms(&s, &q(2, 1), &BigInt::from(12)).unwrap();
+        for (k, t) in terms.iter().enumerate() {
+            let v = closed.value(&BigInt::from(k)).unwrap();
+            assert_eq!(
+                v.to_decimal(30),
+                decimal::rational_to_decimal(&to_rug_rational(t), 30),
+                "k = {k}"
+            );
+        }
+    }
+
+    #[test]
+    fn geometric_tails_sum_exactly_and_large_ratios_diverge() {
+        // Σ_{k>3} a(3)·1^{k−3} diverges (ratio 3/c = 1 at c = 3): geometric series (common practice)
+        let s = desk(3);
+        let sum = piecewise_sum(&s, &Q::one()).unwrap();
+        assert_eq!(sum.tail, TailSum::Divergent);
+        // c = 6: ratio 1/2, tail = a(6)·(1/2)/(1/2) = a(6)
+        let s = desk(6);
+        let sum = piecewise_sum(&s, &Q::one()).unwrap();
+        let terms = exact_terms(&s, &Q::one(), &BigInt::from(6)).unwrap();
+        assert_eq!(sum.tail, TailSum::Exact(terms[6].clone()));
+        let finite: Q = terms.iter().fold(Q::zero(), |a, t| a + t);
+        assert_eq!(sum.finite_part, finite);
+    }
+}

@@ -10,7 +10,7 @@ use num_bigint::BigInt;
 use crate::algebra::{parse_q, Q};
 use crate::diagnostic::Diagnostic;
 use crate::model::{build_model, build_problem, Model, Param, Problem};
-use crate::piecewise::{solve_model, ModelSolution};
+use crate::piecewise::{piecewise_sum, solve_model, ModelSolution, PiecewiseSum};
 use crate::solve::{solve, Solution};
 
 /// The text of an input and the name to show in messages.
@@ -208,4 +208,20 @@ pub fn base_value(
         }),
         (None, None) => Ok(Q::from_integer(1.into())),
     }
+}
+
+/// The sum over the support of a piecewise model, in units of the base term (or with the
+/// boundary equation's value), when every parameter has a value; `None` otherwise.
+pub fn model_sum(model: &Model, solved: &ModelSolution) -> Result<Option<PiecewiseSum>, Error> {
+    if model
+        .params
+        .iter()
+        .any(|p| !solved.values.contains_key(&p.name))
+    {
+        return Ok(None);
+    }
+    let base = base_value(model, &solved.values, None)?;
+    piecewise_sum(solved, &base)
+        .map(Some)
+        .map_err(|e| Error::Usage(format!("the sum over the pieces cannot be formed: {e:?}")))
 }

@@ -402,6 +402,27 @@ fn the_cli_shows_the_derived_ratio_before_the_solution() {
 }
 
 #[test]
+fn the_piecewise_sum_is_the_finite_part_plus_the_geometric_tail() {
+    // M/M/3 with offered load 2: Σ_{k<3} 2^k/k! = 5, p(3) = 4/3, tail Σ_{k>3} = p(3)·(2/3)/(1/3)
+    // = 8/3, total 9 = 5 + 4 (Erlang C's denominator times p(0); computed by hand).
+    let o = telescope(&[
+        "solve",
+        "examples/repair_counter.rule",
+        "--param",
+        "c=3",
+        "--param",
+        "lambda=2",
+        "--param",
+        "mu=1",
+    ]);
+    let out = String::from_utf8_lossy(&o.stdout);
+    assert!(
+        out.contains("Σ p(k) = 19/3 (k ≤ 3) + 8/3 (last piece) = 9, in units of p(0)"),
+        "{out}"
+    );
+}
+
+#[test]
 fn piecewise_models_need_their_breakpoint_and_consecutive_ranges() {
     let o = telescope(&["solve", "examples/repair_counter.rule"]);
     assert_eq!(o.status.code(), Some(2));

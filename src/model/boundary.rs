@@ -65,3 +65,33 @@ pub fn boundary_value(
         span,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use crate::algebra::RatFunc;
+    use crate::model::build_model;
+
+    #[test]
+    fn the_boundary_fixes_the_base_term() {
+        let m = build_model("(k+2) p(k) = (k-1) p(k-1) for k >= 4\n3 p(3) = 1/2").unwrap();
+        let b = m.boundary.unwrap();
+        assert_eq!(b.index, 3.into());
+        assert_eq!(b.value, RatFunc::constant(crate::algebra::q(1, 6)));
+    }
+
+    #[test]
+    fn boundary_errors() {
+        let e = build_model("(k+2) p(k) = (k-1) p(k-1) for k >= 4\np(2) = 1").unwrap_err();
+        assert!(e.message.contains("base term is p(3)"), "{e:?}");
+        let e = build_model("(k+2) p(k) = (k-1) p(k-1) for k >= 4\np(3) = 2 p(3)").unwrap_err();
+        assert!(
+            e.message.contains("every term of the rule is zero"),
+            "{e:?}"
+        );
+        let e = build_model("(k+2) p(k) = (k-1) p(k-1) for k >= 4\np(3) = p(2)").unwrap_err();
+        assert!(e.message.contains("several"), "{e:?}");
+        let e =
+            build_model("(k+2) p(k) = (k-1) p(k-1) for k >= 4\np(3) = 1\np(3) = 2").unwrap_err();
+        assert!(e.message.contains("second boundary"), "{e:?}");
+    }
+}

@@ -239,3 +239,35 @@ fn other_kind(kind: &str) -> &'static str {
         "birth"
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use crate::algebra::RatFunc;
+    use crate::model::build_model;
+
+    #[test]
+    fn a_piecewise_birth_rate_moves_up_one_index() {
+        // birth(k) for 0 <= k <= 2 feeds the ratio at k = 1..3 (π(k)/π(k−1) = birth(k−1)/death(k))
+        let m = build_model("birth(k) = 2 for 0 <= k <= 2\nbirth(k) = 1 for k > 2\ndeath(k) = k")
+            .unwrap();
+        assert_eq!(m.pieces.len(), 2);
+        assert_eq!(m.pieces[0].first, RatFunc::from_integer(1));
+        assert_eq!(m.pieces[0].last, Some(RatFunc::from_integer(3)));
+        assert_eq!(m.pieces[1].first, RatFunc::from_integer(4));
+        assert_eq!(m.pieces[0].ratio.constant, RatFunc::from_integer(2));
+        assert_eq!(m.pieces[1].ratio.constant, RatFunc::from_integer(1));
+    }
+
+    #[test]
+    fn rate_errors() {
+        let e = build_model("birth(k) = lambda").unwrap_err();
+        assert!(e.message.contains("no death(k)"), "{e:?}");
+        let e = build_model("param N integer >= 1\nbirth(k) = 1 for 0 <= k <= N\ndeath(k) = k")
+            .unwrap_err();
+        assert!(e.message.contains("birth(N) is not zero"), "{e:?}");
+        let e = build_model("birth(k) = 0\ndeath(k) = k").unwrap_err();
+        assert!(e.message.contains("identically zero"), "{e:?}");
+        let e = build_model("birth(k) = 1\ndeath(k) = k\na(k)/a(k-1) = 1/k").unwrap_err();
+        assert!(e.message.contains("not both"), "{e:?}");
+    }
+}

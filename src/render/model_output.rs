@@ -6,7 +6,7 @@
 use serde_json::{json, Value};
 
 use crate::model::{Assumption, Model, Piece, ProductForm, RuleSource};
-use crate::piecewise::ModelSolution;
+use crate::piecewise::{ModelSolution, PiecewiseSum, TailSum};
 
 use super::node::Node;
 use super::{latex, solve_json, solve_latex, solve_text, text, to_node};
@@ -306,15 +306,65 @@ pub fn derivation_json(model: &Model) -> Value {
 }
 
 /// `telescope solve` for a piecewise model: the derivation, then each piece's solution, then
-/// how the pieces join.
-pub fn piecewise_text(model: &Model, solution: &ModelSolution) -> String {
+/// how the pieces join and, when every parameter has a value, the sum over the support.
+pub fn piecewise_text(
+    model: &Model,
+    solution: &ModelSolution,
+    sum: Option<&PiecewiseSum>,
+) -> String {
     let mut out = derivation_text(model);
     for (i, piece) in solution.pieces.iter().enumerate() {
         out += &format!("\n── piece {} ──\n", i + 1);
         out += &solve_text(&piece.problem, &piece.solution);
     }
     out += &format!("\n{}", joins_text(model, solution));
+    if let Some(sum) = sum {
+        let base = solution.base_index();
+        let n = &model.sequence;
+        let (tail, total) = tail_words(sum);
+        let unit = if model.boundary.is_some() {
+            format!("with {n}({base}) from the boundary equation")
+        } else {
+            format!("in units of {n}({base})")
+        };
+        out += &format!(
+            "sum          Σ {n}(k) = {} (k ≤ {}) + {tail} (last piece) = {total}, {unit}\n",
+            sum.finite_part,
+            solution
+                .pieces
+                .last()
+                .map(|p| p.problem.base_index())
+                .unwrap_or(base.clone()),
+        );
+    }
     out
+}
+
+fn tail_words(sum: &PiecewiseSum) -> (String, String) {
+    match (&sum.tail, sum.total()) {
+        (TailSum::Exact(t), Some(total)) => (t.to_string(), total.to_string()),
+        (TailSum::Divergent, _) => ("∞".into(), "∞ (the tail diverges)".into()),
+        _ => (
+            "…".into(),
+            "not summed here (the last piece is not geometric)".into(),
+        ),
+    }
+}
+
+fn sum_json(sum: &PiecewiseSum) -> Value {
+    let (tail, total) = match &sum.tail {
+        TailSum::Exact(t) => (
+            json!(t.to_string()),
+            json!(sum.total().map(|t| t.to_string())),
+        ),
+        _ => (Value::Null, Value::Null),
+    };
+    let status = match &sum.tail {
+        TailSum::Exact(_) => "exact",
+        TailSum::Divergent => "divergent",
+        TailSum::NotGeometric => "not_summed",
+    };
+    json!({ "finite_part": sum.finite_part.to_string(), "tail_part": tail, "total": total, "tail": status })
 }
 
 fn joins_text(model: &Model, solution: &ModelSolution) -> String {
@@ -346,8 +396,12 @@ pub fn piecewise_latex(model: &Model, solution: &ModelSolution) -> String {
 }
 
 /// JSON for a piecewise model: `derivation`, `pieces` (each the single-rule object plus its
-/// range), `breakpoints`.
-pub fn piecewise_json(model: &Model, solution: &ModelSolution) -> Value {
+/// `last_index`), `breakpoints`, `sum`.
+pub fn piecewise_json(
+    model: &Model,
+    solution: &ModelSolution,
+    sum: Option<&PiecewiseSum>,
+) -> Value {
     let pieces: Vec<Value> = solution
         .pieces
         .iter()
@@ -367,5 +421,6 @@ pub fn piecewise_json(model: &Model, solution: &ModelSolution) -> Value {
         "derivation": derivation_json(model),
         "pieces": pieces,
         "breakpoints": solution.breakpoints().iter().map(|b| b.to_string()).collect::<Vec<_>>(),
+        "sum": sum.map(sum_json),
     })
 }
