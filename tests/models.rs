@@ -432,3 +432,15 @@ fn piecewise_models_need_their_breakpoint_and_consecutive_ranges() {
     assert!(e.message.contains("right after"), "{e:?}");
     assert_eq!(e.line_column(gap), (2, 19));
 }
+
+#[test]
+fn a_forward_balance_without_range_keeps_the_default_base_term() {
+    // (k+1) p(k+1) = lambda p(k): the Poisson balance written forward (ratio λ/k, common
+    // practice); with no `for` the rule starts at the default k = 2 like any other rule.
+    let m = model("(k+1) p(k+1) = lambda p(k)");
+    assert_eq!(m.pieces[0].first, RatFunc::from_integer(2));
+    // with a range, the equation's range moves with the index: k ≥ 0 for the equation is
+    // k ≥ 1 for the rule.
+    let m = model("(k+1) p(k+1) = lambda p(k)   for k >= 0");
+    assert_eq!(m.pieces[0].first, RatFunc::one());
+}

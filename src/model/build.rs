@@ -178,6 +178,17 @@ pub fn build_model(text: &str) -> Result<Model, Diagnostic> {
         }
     }
     rules.sort_by_key(|r| r.statement().span.start);
+    if let (true, true, Some(first)) = (
+        rules.is_empty(),
+        rate_statements.is_empty(),
+        boundaries.first(),
+    ) {
+        return Err(Diagnostic::new(
+            "this equation fixes one term, but the model has no rule for general k",
+            first.span.clone(),
+        )
+        .with_help("add the rule, e.g. a balance such as (k+2) n(k) = (k-1) n(k-1) for k >= 2"));
+    }
     if rules.is_empty() && rate_statements.is_empty() {
         return Err(Diagnostic::new(
             "no rule found: the input declares parameters but gives no ratio",
@@ -337,7 +348,8 @@ fn rule_pieces(
         *discovered = names.params;
         let (ratio, form, source, assumptions, shift) = built?;
         let range = index_range(rule.range(), index, DEFAULT_FIRST_INDEX, declared)?;
-        let shift = RatFunc::from_integer(shift);
+        // Without `for` the default speaks of the rule (base term a(1)), not of the equation.
+        let shift = RatFunc::from_integer(if rule.range().is_some() { shift } else { 0 });
         if let (Some((_, upper_span)), 1) = (&range.last, rules.len()) {
             return Err(Diagnostic::new(
                 "an upper bound on the index is not supported for a single rule",

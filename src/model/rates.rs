@@ -126,6 +126,20 @@ pub fn rate_pieces(
     }
     let start = births[0].first.clone().unwrap_or_else(RatFunc::zero);
     let first_state = &start + &RatFunc::one();
+    if let Some(first) = &deaths[0].first {
+        // death(k) is needed from the first state above the start; `for 0 <= k …` is fine too.
+        if *first != first_state && *first != start {
+            return Err(Diagnostic::new(
+                format!(
+                    "death({index}) must be given from {index} = {first_state}, the first state above the start {start}"
+                ),
+                deaths[0].range_span.clone().unwrap_or(deaths[0].statement.span.clone()),
+            )
+            .with_help(format!(
+                "the chain starts at the lower bound of the first birth range ({start} when none is given); give death({index}) for every state after it"
+            )));
+        }
+    }
     let mut assumptions = vec![Assumption::DetailedBalance];
     let end = births
         .last()
