@@ -53,6 +53,30 @@ enum Command {
         #[arg(long, value_enum, default_value_t = TableFormat::Text)]
         format: TableFormat,
     },
+    /// Prove or refute a claimed closed form, and say what is wrong with it.
+    Check {
+        /// A rule in quotes, a model file, or - for standard input.
+        input: String,
+        /// The claimed a(k), e.g. "n(1) * (7/2) * Beta(k, 7/2)".
+        #[arg(long, value_name = "EXPR", allow_hyphen_values = true)]
+        claim: String,
+        #[arg(long = "param", value_name = "NAME=VALUE")]
+        params: Vec<String>,
+        /// The base term's value a(b) (default 1).
+        #[arg(long, value_name = "VALUE")]
+        base: Option<String>,
+        /// Significant digits of the numeric comparison.
+        #[arg(long, default_value_t = telescope::check::DEFAULT_DIGITS)]
+        digits: u32,
+        #[arg(long, value_enum, default_value_t = CheckFormat::Text)]
+        format: CheckFormat,
+    },
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum CheckFormat {
+    Text,
+    Json,
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -72,8 +96,55 @@ enum TableFormat {
 /// Largest `--digits` accepted.
 const MAX_DIGITS: u32 = 10_000;
 
-fn run(cli: Cli) -> Result<String, Error> {
+/// The output and whether the claim holds (exit 1 when a claim is refuted).
+fn run(cli: Cli) -> Result<(String, bool), Error> {
     match cli.command {
+        Command::Check {
+            input,
+            claim,
+            params,
+            base,
+            digits,
+            format,
+        } => {
+            use telescope::check::{check_claim, CheckError, CheckRequest, Verdict, MIN_DIGITS};
+            if !(MIN_DIGITS..=MAX_DIGITS).contains(&digits) {
+                return Err(Error::Usage(format!(
+                    "--digits {digits}: choose {MIN_DIGITS} to {MAX_DIGITS} for a check"
+                )));
+            }
+            let input = session::read_input(&input)?;
+            let problem = session::load_problem(&input)?;
+            let values = session::parse_values(&problem, &params)?;
+            let base = base
+                .map(|b| session::parse_value("--base", &b))
+                .transpose()?;
+            let request = CheckRequest {
+                claim: claim.clone(),
+                values,
+                base,
+                digits,
+            };
+            let report = check_claim(&problem, &request).map_err(|e| match e {
+                CheckError::Claim(diagnostic) => Error::Input {
+                    input: session::Input {
+                        name: "--claim".into(),
+                        text: claim.clone(),
+                    },
+                    diagnostic,
+                },
+                CheckError::Rule(diagnostic) => Error::Input {
+                    input: input.clone(),
+                    diagnostic,
+                },
+            })?;
+            let holds = report.verdict != Verdict::Refuted;
+            let out = match format {
+                CheckFormat::Text => render::check_text(&report),
+                CheckFormat::Json => pretty(&render::check_json(&report)),
+            };
+            Ok((out, holds))
+        }
         Command::Solve {
             input,
             params,
@@ -83,11 +154,14 @@ fn run(cli: Cli) -> Result<String, Error> {
             let problem = session::load_problem(&input)?;
             let values = session::parse_values(&problem, &params)?;
             let solution = session::run_solve(&input, &problem, &values)?;
-            Ok(match format {
-                SolveFormat::Text => render::solve_text(&problem, &solution),
-                SolveFormat::Latex => render::solve_latex(&problem, &solution),
-                SolveFormat::Json => pretty(&render::solve_json(&problem, &solution)),
-            })
+            Ok((
+                match format {
+                    SolveFormat::Text => render::solve_text(&problem, &solution),
+                    SolveFormat::Latex => render::solve_latex(&problem, &solution),
+                    SolveFormat::Json => pretty(&render::solve_json(&problem, &solution)),
+                },
+                true,
+            ))
         }
         Command::Table {
             input,
@@ -124,11 +198,14 @@ fn run(cli: Cli) -> Result<String, Error> {
                     input: input.clone(),
                     diagnostic,
                 })?;
-            Ok(match format {
-                TableFormat::Text => render::table_text(&table),
-                TableFormat::Csv => render::table_csv(&table),
-                TableFormat::Json => pretty(&render::table_json(&table)),
-            })
+            Ok((
+                match format {
+                    TableFormat::Text => render::table_text(&table),
+                    TableFormat::Csv => render::table_csv(&table),
+                    TableFormat::Json => pretty(&render::table_json(&table)),
+                },
+                true,
+            ))
         }
     }
 }
@@ -147,9 +224,13 @@ fn main() -> ExitCode {
         }
     };
     match run(cli) {
-        Ok(out) => {
+        Ok((out, holds)) => {
             print!("{out}");
-            ExitCode::SUCCESS
+            if holds {
+                ExitCode::SUCCESS
+            } else {
+                ExitCode::from(1)
+            }
         }
         Err(e) => {
             eprint!("{}", e.render());
