@@ -210,9 +210,18 @@ fn exact_diagnosis(
     }
     for s in [1i64, -1, 2, -2] {
         if exact::is_shift_of(&e.claim_ratio, &e.rule_ratio, s, index) {
-            let mut d = Diagnosis::new(Kind::IndexShift, values);
+            let mut d = Diagnosis::new(Kind::IndexShift, values.clone());
             d.shift = Some(s);
-            if let Some((f, m)) = shifted_factor(claim, run, s, prec, tol) {
+            let base = request
+                .base
+                .clone()
+                .unwrap_or_else(|| Q::from_integer(1.into()));
+            if let Some(f) = term.and_then(|t| shift_factor(t, e, run, s, &base, index)) {
+                if !f.is_one() {
+                    d.factor = Some(exact_quantity(&f, &values, prec));
+                    d.missing = Some(exact_quantity(&inverse(&f), &values, prec));
+                }
+            } else if let Some((f, m)) = shifted_factor(claim, run, s, prec, tol) {
                 if !is_one(&f) {
                     d.factor = Some(f);
                     d.missing = Some(m);
@@ -246,6 +255,43 @@ fn exact_diagnosis(
         }
         _ => Diagnosis::new(Kind::PartsAt, values),
     }
+}
+
+fn inverse(v: &ExactValue) -> ExactValue {
+    ExactValue {
+        rational: v.rational.inv().unwrap_or_else(RatFunc::zero),
+        half_pi: -v.half_pi,
+    }
+}
+
+/// claim(k)/truth(k + s) exactly, read at the first k where both sides are defined: the
+/// claim's exact value there over the truth's Π R(j) from the base (DLMF 5.2.5 in reverse).
+fn shift_factor(
+    term: &HyperTerm,
+    e: &ExactRoute,
+    run: &PointRun,
+    s: i64,
+    base: &Q,
+    index: &str,
+) -> Option<ExactValue> {
+    let b = run.truth.base_index();
+    let k0 = b + BigInt::from((-s).max(0));
+    let form = exact::gamma_form(term, index);
+    let claim_value = exact::value_at(&form, term, &k0, index)?;
+    let mut truth = RatFunc::one();
+    let mut j: BigInt = b + 1;
+    let last: BigInt = &k0 + s;
+    while j <= last {
+        let at = RatFunc::constant(Q::from_integer(j.clone()));
+        truth = &truth * &e.rule_ratio.substitute(index, &at)?;
+        j += 1;
+    }
+    let truth = match term.base_power {
+        1 => truth,
+        0 => &truth * &RatFunc::constant(base.clone()),
+        _ => return None,
+    };
+    claim_value.divided_by(&truth)
 }
 
 /// The power left once the rate is divided out: q(k)/r = 1 + δ/k + ….
@@ -290,12 +336,8 @@ fn base_diagnosis(
                 RatFunc::constant(expected.clone())
             };
             if let Some(f) = v.divided_by(&divisor) {
-                let inverse = ExactValue {
-                    rational: f.rational.inv().unwrap_or_else(RatFunc::zero),
-                    half_pi: -f.half_pi,
-                };
                 d.factor = Some(exact_quantity(&f, &values, prec));
-                d.missing = Some(exact_quantity(&inverse, &values, prec));
+                d.missing = Some(exact_quantity(&inverse(&f), &values, prec));
             }
             if base_power == 0 {
                 d.claim_at_base = Some(exact_quantity(v, &values, prec).decimal);
@@ -303,10 +345,13 @@ fn base_diagnosis(
             }
         }
         BaseCheck::Numeric => {
-            if let Some((f, m)) = shifted_factor(claim, run, 0, prec, tol) {
-                d.factor = Some(f);
-                d.missing = Some(m);
-            }
+            let Some((f, m)) = shifted_factor(claim, run, 0, prec, tol) else {
+                // Right ratio, yet not a constant multiple where evaluated: the claim is
+                // undefined or zero somewhere the truth is not.
+                return Diagnosis::new(Kind::PartsAt, values);
+            };
+            d.factor = Some(f);
+            d.missing = Some(m);
             if base_power == 0 {
                 d.claim_at_base = claim_at_base(run, request.digits);
                 d.base_value = Some(run.truth.point.base.clone());

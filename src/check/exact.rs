@@ -206,9 +206,17 @@ pub fn value_at(form: &GammaForm, term: &HyperTerm, b: &BigInt, index: &str) -> 
         rational = &rational * &RatFunc::constant(value).pow(e)?;
         half_pi += pi * e;
     }
+    // Powers of one base are gathered first: (1−p)^(N−k)·(1−p)^(−N) is (1−p)^(−k).
+    let mut gathered: Vec<(RatFunc, RatFunc)> = Vec::new();
     for (base, exponent) in &form.powers {
         let n = affine_ratfunc(exponent, index).substitute(index, &at_b)?;
-        if base.is_one() {
+        match gathered.iter_mut().find(|(b, _)| b == base) {
+            Some((_, total)) => *total = &*total + &n,
+            None => gathered.push((base.clone(), n)),
+        }
+    }
+    for (base, n) in &gathered {
+        if base.is_one() || n.is_zero() {
             continue;
         }
         let n = n.as_constant()?;

@@ -33,8 +33,10 @@ pub fn alternative_base() -> Q {
 
 /// Fractions of an interval, spread out and unlikely to hit special values.
 const INTERVAL_FRACTIONS: [(i64, i64); 3] = [(2, 7), (5, 9), (4, 5)];
-/// Distances from a one-sided bound (or from 0 when there is none).
+/// Distances from a one-sided bound.
 const STEPS: [(i64, i64); 3] = [(3, 7), (13, 6), (47, 5)];
+/// Values for a parameter declared nowhere.
+const UNDECLARED: [(i64, i64); 3] = [(3, 7), (2, 9), (5, 8)];
 
 /// Deterministic candidate values for one parameter, in its declared range.
 fn candidates(p: &Param) -> Vec<Q> {
@@ -76,7 +78,8 @@ fn candidates(p: &Param) -> Vec<Q> {
                 .collect(),
             (Some((l, _)), None) => STEPS.iter().map(|(a, b)| l + q(*a, *b)).collect(),
             (None, Some((h, _))) => STEPS.iter().map(|(a, b)| h - q(*a, *b)).collect(),
-            (None, None) => STEPS.iter().map(|(a, b)| q(*a, *b)).collect(),
+            // Undeclared: values in (0, 1), where rates such as p and 1 − p stay positive.
+            (None, None) => UNDECLARED.iter().map(|(a, b)| q(*a, *b)).collect(),
         }
     };
     let mut out: Vec<Q> = raw.into_iter().filter(|v| p.admits(v)).collect();

@@ -10,6 +10,8 @@ use crate::check::exact::ExactValue;
 use crate::check::{BaseCheck, CheckReport, Diagnosis, Kind, Quantity, Verdict};
 use crate::closed_form::Factor;
 use crate::model::{from_ratfunc, normal_form};
+use crate::ratio::Orientation;
+use num_traits::Signed;
 
 use super::node::Node;
 use super::{formula, text, to_node};
@@ -30,13 +32,27 @@ fn verdict_key(v: Verdict) -> &'static str {
     }
 }
 
-/// A ratio as the product of linear factors when it splits, else as one fraction.
+/// A ratio as the product of linear factors when it splits, else as one fraction. A factor
+/// `k − (N + 1)` is shown as `N + 1 − k` (its sign moved into the constant), the way rules
+/// with finite support are written.
 fn ratio_node(r: &RatFunc, index: &str) -> Node {
     let form = from_ratfunc(r, index, 0..0);
-    match normal_form(&form, index) {
-        Ok(ratio) => to_node::ratio(&ratio, index),
-        Err(_) => to_node::ratfunc(r),
+    let Ok(mut ratio) = normal_form(&form, index) else {
+        return to_node::ratfunc(r);
+    };
+    for f in &mut ratio.factors {
+        let all_negative = f.shift.as_constant().is_none()
+            && f.shift.denom().is_one()
+            && f.shift.numer().terms().all(|(_, c)| c.is_negative());
+        if f.orientation == Orientation::Rising && all_negative {
+            f.orientation = Orientation::Falling;
+            f.shift = -f.shift.clone();
+            if f.exponent % 2 != 0 {
+                ratio.constant = -ratio.constant.clone();
+            }
+        }
     }
+    to_node::ratio(&ratio, index)
 }
 
 fn exact_node(v: &ExactValue, index: &str) -> Node {
@@ -141,8 +157,9 @@ pub fn diagnosis_sentence(r: &CheckReport, d: &Diagnosis) -> String {
             } else {
                 format!("{index} − {}", -s)
             };
+            let by = if s < 0 { format!("−{}", -s) } else { s.to_string() };
             let mut out = format!(
-                "index shift: the claim at {index} equals the truth at {moved} (it is shifted by {s} in {index})"
+                "index shift: the claim at {index} equals the truth at {moved} (it is shifted by {by} in {index})"
             );
             if d.factor.is_some() {
                 out += &format!(", up to a constant: {}", factor(d));
