@@ -518,3 +518,23 @@ fn json_output_is_snapshotted() {
     let v: Value = serde_json::from_slice(&o.stdout).unwrap();
     insta::assert_json_snapshot!("check_lockers_constant_factor", v);
 }
+
+#[test]
+fn the_text_report_shows_how_the_claim_was_read() {
+    // Juxtaposition binds tighter than `/` (grammar/telescope.ebnf): the (1−p)^k lands in the
+    // denominator, which the report makes visible, and the rate comes out as 1/(1−p)².
+    let rule = reference("negative_binomial")["rule_symbolic"]
+        .as_str()
+        .unwrap()
+        .to_string();
+    let r = run(&rule, "a(0) Gamma(k+n)/(k! Gamma(n)) (1-p)^k", &[], None);
+    let text = render::check_text(&r);
+    assert!(
+        text.contains("read as      a(k) = a(0)·Γ(k + n)/(k!·Γ(n)·(1 − p)^k)"),
+        "{text}"
+    );
+    assert_eq!(kind_of(&r), Kind::WrongGeometricRate);
+    insta::assert_snapshot!("check_text_read_as", text);
+    let r = run(YULE, "n(1) * Beta(k, 7/2)", &[], None);
+    insta::assert_snapshot!("check_text_constant_factor", render::check_text(&r));
+}

@@ -118,6 +118,8 @@ impl Diagnosis {
     }
 }
 
+/// Largest denominator offered as the likely exact value of an estimate from large k.
+const SMALL_DENOMINATOR: i64 = 24;
 /// Digits shown for diagnosed quantities.
 const SHOWN_DIGITS: u32 = 12;
 /// Where the growth of claim/truth is read (offsets from the base index); the last one only
@@ -575,7 +577,11 @@ fn growth_diagnosis(
             sign: rate_sign,
             ln_abs: ln_rate,
         };
-        d.rate_error = Some(numeric_quantity_digits(&r, prec, &coarse, 8));
+        let mut rate = numeric_quantity_digits(&r, prec, &coarse, 8);
+        rate.near = rate
+            .near
+            .filter(|q| q.denom().abs() <= BigInt::from(SMALL_DENOMINATOR));
+        d.rate_error = Some(rate);
         if delta.clone().abs() > 1e-3 {
             d.exponent_error = Some(float_quantity(&delta, &coarse));
         }
@@ -600,7 +606,8 @@ fn float_quantity(x: &Float, tol: &Float) -> Quantity {
     Quantity {
         decimal: decimal::float_to_decimal(x, 6),
         exact: None,
-        near: simple_fraction(x, tol).filter(|q| q.denom().abs() <= BigInt::from(24)),
+        near: simple_fraction(x, tol)
+            .filter(|q| q.denom().abs() <= BigInt::from(SMALL_DENOMINATOR)),
     }
 }
 

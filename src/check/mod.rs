@@ -131,8 +131,9 @@ pub struct RatioSample {
 /// Everything `check` found.
 #[derive(Clone, Debug)]
 pub struct CheckReport {
-    /// The claim as given (spans point into it).
+    /// The claim as given (spans point into it), and as read.
     pub claim: String,
+    pub read: Claim,
     /// The rule's R(k) in factor normal form, and the first k at which it holds.
     pub rule: Ratio,
     pub first_index: BigInt,
@@ -245,6 +246,7 @@ pub fn check_claim(problem: &Problem, request: &CheckRequest) -> Result<CheckRep
     let ratio_samples = ratio_samples(problem, &runs[0]);
     Ok(CheckReport {
         claim: request.claim.clone(),
+        read: claim.clone(),
         rule: problem.ratio.clone(),
         first_index: problem.first_index.clone(),
         sequence: problem.sequence.clone(),

@@ -13,8 +13,10 @@ use crate::model::{from_ratfunc, normal_form};
 use crate::ratio::Orientation;
 use num_traits::Signed;
 
-use super::node::Node;
+use super::node::{Function, Node};
 use super::{formula, text, to_node};
+use crate::check::claim::{Claim, ClaimKind, Function as ClaimFunction};
+use crate::syntax::BinOp;
 
 pub fn verdict_word(v: Verdict) -> &'static str {
     match v {
@@ -41,11 +43,20 @@ fn ratio_node(r: &RatFunc, index: &str) -> Node {
         return to_node::ratfunc(r);
     };
     for f in &mut ratio.factors {
-        let all_negative = f.shift.as_constant().is_none()
-            && f.shift.denom().is_one()
-            && f.shift.numer().terms().all(|(_, c)| c.is_negative());
-        if f.orientation == Orientation::Rising && all_negative {
-            f.orientation = Orientation::Falling;
+        let symbolic = f.shift.as_constant().is_none() && f.shift.denom().is_one();
+        let numer = f.shift.numer();
+        let flip = symbolic
+            && match f.orientation {
+                // k − (N + 1) → N + 1 − k
+                Orientation::Rising => numer.terms().all(|(_, c)| c.is_negative()),
+                // 1 − n − k → −(k + n − 1)
+                Orientation::Falling => numer.leading_term().is_some_and(|(_, c)| c.is_negative()),
+            };
+        if flip {
+            f.orientation = match f.orientation {
+                Orientation::Rising => Orientation::Falling,
+                Orientation::Falling => Orientation::Rising,
+            };
             f.shift = -f.shift.clone();
             if f.exponent % 2 != 0 {
                 ratio.constant = -ratio.constant.clone();
@@ -70,6 +81,57 @@ fn exact_node(v: &ExactValue, index: &str) -> Node {
         Node::frac(rational, pi)
     } else {
         Node::product(vec![rational, pi])
+    }
+}
+
+/// The claim as it was read: shows how implicit multiplication and `/` grouped it.
+pub fn claim_node(c: &Claim, r: &CheckReport) -> Node {
+    let node = |c: &Claim| claim_node(c, r);
+    match &c.kind {
+        ClaimKind::Number(q) => to_node::rational(q),
+        ClaimKind::Param(name) => Node::sym(name),
+        ClaimKind::Index => Node::sym(&r.index),
+        ClaimKind::Pi => Node::sym("pi"),
+        ClaimKind::Base => Node::Term(
+            r.sequence.clone(),
+            Box::new(Node::Int(r.base_index.clone())),
+        ),
+        ClaimKind::Neg(inner) => node(inner).negate(),
+        ClaimKind::Binary(op, a, b) => {
+            let (a, b) = (node(a), node(b));
+            match op {
+                BinOp::Add | BinOp::Sub => {
+                    let mut terms = match a {
+                        Node::Sum(inner) => inner,
+                        other => vec![other],
+                    };
+                    terms.push(if *op == BinOp::Sub { b.negate() } else { b });
+                    Node::Sum(terms)
+                }
+                BinOp::Mul | BinOp::ImplicitMul => Node::product(vec![a, b]),
+                BinOp::Div => Node::frac(a, b),
+                BinOp::Pow => Node::pow(a, b),
+            }
+        }
+        ClaimKind::Call(f, args) => {
+            let mut args: Vec<Node> = args.iter().map(node).collect();
+            match f {
+                ClaimFunction::Gamma => Node::Call(Function::Gamma, args),
+                ClaimFunction::Beta => Node::Call(Function::Beta, args),
+                ClaimFunction::Exp => Node::Call(Function::Exp, args),
+                ClaimFunction::Log => Node::Call(Function::Log, args),
+                ClaimFunction::Sqrt => Node::Call(Function::Sqrt, args),
+                ClaimFunction::Factorial => Node::Factorial(Box::new(args.remove(0))),
+                ClaimFunction::Binomial => {
+                    let top = args.remove(0);
+                    Node::Binomial(Box::new(top), Box::new(args.remove(0)))
+                }
+                ClaimFunction::Rising => {
+                    let base = args.remove(0);
+                    Node::Rising(Box::new(base), Box::new(args.remove(0)))
+                }
+            }
+        }
     }
 }
 
@@ -232,6 +294,11 @@ pub fn check_text(r: &CheckReport) -> String {
     let mut out = String::new();
     out += &format!("claim        {} = {}\n", to_node_term(r), r.claim.trim());
     out += &format!(
+        "read as      {} = {}\n",
+        to_node_term(r),
+        text::write(&claim_node(&r.read, r))
+    );
+    out += &format!(
         "rule         {}({index})/{}({index} − 1) = {}   for {index} ≥ {}\n",
         r.sequence,
         r.sequence,
@@ -249,7 +316,7 @@ pub fn check_text(r: &CheckReport) -> String {
             out += &format!(
                 "ratio        claim: {}\n             rule:  {}\n",
                 text::write(&ratio_node(&e.claim_ratio, index)),
-                text::write(&ratio_node(&e.rule_ratio, index))
+                text::write(&rule_node)
             );
             if let BaseCheck::Exact(v) = &e.base_check {
                 let scale = if e.base_power == 1 {
@@ -376,6 +443,7 @@ pub fn check_json(r: &CheckReport) -> Value {
     });
     json!({
         "claim": r.claim.trim(),
+        "claim_read_as": formula(&claim_node(&r.read, r)),
         "sequence": r.sequence,
         "index": index,
         "base_index": r.base_index.to_string(),
