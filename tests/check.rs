@@ -359,6 +359,22 @@ fn otherwise_the_first_parting_point_is_shown() {
     assert!(p.truth.starts_with("1.0000"), "{}", p.truth);
 }
 
+#[test]
+fn a_claim_right_in_form_but_undefined_somewhere_is_refuted_where_it_fails() {
+    // Γ(k−5)/Γ(k−5) cancels in the ratio and at the base, but it is 0/0 … at k = 1 … 5
+    // (poles of Γ, DLMF 5.2.1): the values decide.
+    let r = run(
+        YULE,
+        "n(1) * (7/2) * Beta(k, 7/2) * Gamma(k-5)/Gamma(k-5)",
+        &[],
+        None,
+    );
+    assert_eq!(kind_of(&r), Kind::PartsAt);
+    let p = r.diagnosis.as_ref().unwrap().parting.clone().unwrap();
+    assert_eq!(p.k, 1.into());
+    assert!(p.claim.starts_with("undefined"), "{}", p.claim);
+}
+
 // --- the example models -------------------------------------------------------------------
 
 #[test]

@@ -19,9 +19,13 @@ use crate::model::Problem;
 use crate::numeric::{decimal, to_rug_rational, LogReal};
 
 use super::claim::Claim;
+use super::estimate::{
+    float_quantity, is_one, log_quotient, numeric_quantity_digits, shifted_factor, SHOWN_DIGITS,
+    SMALL_DENOMINATOR,
+};
 use super::exact::{self, ExactValue, Growth};
 use super::hyper::HyperTerm;
-use super::numeric_route::{claim_at, claim_precision, PointRun};
+use super::numeric_route::{claim_precision, PointRun};
 use super::{BaseCheck, CheckRequest, ExactRoute};
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -118,10 +122,6 @@ impl Diagnosis {
     }
 }
 
-/// Largest denominator offered as the likely exact value of an estimate from large k.
-const SMALL_DENOMINATOR: i64 = 24;
-/// Digits shown for diagnosed quantities.
-const SHOWN_DIGITS: u32 = 12;
 /// Where the growth of claim/truth is read (offsets from the base index); the last one only
 /// confirms that ln|claim/truth| really has the form ln C + k ln r + δ ln k + O(1/k).
 const FAR: [u64; 3] = [100_000, 1_000_000, 300_000];
@@ -142,6 +142,11 @@ pub fn diagnose(
     let values = run.truth.point.values.clone();
     let parting = first_parting(run, tol, request.digits);
     let mut d = match exact {
+        // The exact route found nothing wrong, yet the values differ: the claim is undefined
+        // (0/0, a pole) or vanishes somewhere the truth does not.
+        Some(e) if e.ratios_agree && e.base_agrees => {
+            Diagnosis::new(Kind::PartsAt, BTreeMap::new())
+        }
         Some(e) => exact_diagnosis(claim, term, e, run, request, prec, tol, index),
         None => numeric_diagnosis(claim, run, prec, tol),
     };
@@ -371,128 +376,6 @@ fn claim_at_base(run: &PointRun, digits: u32) -> Option<String> {
     }
 }
 
-/// sign and ln|claim(k)/truth(k + s)| at one k, when both are finite and non-zero.
-fn log_quotient(
-    claim: &Claim,
-    run: &PointRun,
-    k: &BigInt,
-    s: i64,
-    prec: u32,
-) -> Option<(i8, Float)> {
-    let c = claim_at(claim, &run.truth.point, k, prec).ok()?;
-    let t = run.truth.at(&(k + BigInt::from(s)), prec)?;
-    if c.is_zero() || t.is_zero() {
-        return None;
-    }
-    Some((
-        c.sign * t.sign,
-        Float::with_val(prec, &c.ln_abs - &t.ln_abs),
-    ))
-}
-
-/// claim(k)/truth(k + s) when it is the same at every sampled k (and the zeros agree):
-/// the factor and its reciprocal.
-fn shifted_factor(
-    claim: &Claim,
-    run: &PointRun,
-    s: i64,
-    prec: u32,
-    tol: &Float,
-) -> Option<(Quantity, Quantity)> {
-    let b = run.truth.base_index().clone();
-    let mut first: Option<(i8, Float)> = None;
-    let mut seen = 0;
-    for c in &run.comparisons {
-        let k = &c.k;
-        if k + BigInt::from(s) < b {
-            continue;
-        }
-        let claim_value = claim_at(claim, &run.truth.point, k, prec);
-        let truth = run.truth.at(&(k + BigInt::from(s)), prec)?;
-        match &claim_value {
-            Ok(v) if v.is_zero() != truth.is_zero() => return None,
-            Ok(v) if v.is_zero() => continue,
-            Ok(_) => {}
-            Err(_) => return None,
-        }
-        let here = log_quotient(claim, run, k, s, prec)?;
-        match &first {
-            None => first = Some(here),
-            Some((sign, ln)) => {
-                let gap = Float::with_val(prec, &here.1 - ln).abs();
-                if here.0 != *sign || gap > *tol {
-                    return None;
-                }
-            }
-        }
-        seen += 1;
-    }
-    if seen < 2 {
-        return None;
-    }
-    let (sign, ln) = first?;
-    let f = LogReal { sign, ln_abs: ln };
-    let m = LogReal {
-        sign,
-        ln_abs: -f.ln_abs.clone(),
-    };
-    Some((
-        numeric_quantity(&f, prec, tol),
-        numeric_quantity(&m, prec, tol),
-    ))
-}
-
-fn is_one(q: &Quantity) -> bool {
-    q.near
-        .as_ref()
-        .is_some_and(|x| *x == Q::from_integer(1.into()))
-}
-
-fn numeric_quantity(v: &LogReal, prec: u32, tol: &Float) -> Quantity {
-    let x = v.to_float(prec);
-    let near = x.as_ref().and_then(|x| simple_fraction(x, tol));
-    Quantity {
-        decimal: v.to_decimal(SHOWN_DIGITS),
-        exact: None,
-        near,
-    }
-}
-
-/// The fraction with the smallest denominator (at most 10^6) within `tol` (relative) of x,
-/// by continued fractions (common practice).
-pub fn simple_fraction(x: &Float, tol: &Float) -> Option<Q> {
-    let target = x.to_rational()?;
-    let allowed = Float::with_val(x.prec(), x.abs_ref()) * tol;
-    let allowed = allowed.max(tol);
-    let (mut h0, mut h1) = (rug::Integer::from(0), rug::Integer::from(1));
-    let (mut k0, mut k1) = (rug::Integer::from(1), rug::Integer::from(0));
-    let mut rest = target.clone();
-    for _ in 0..64 {
-        let a = rest.clone().floor().numer().clone();
-        let h = rug::Integer::from(&a * &h1) + &h0;
-        let k = rug::Integer::from(&a * &k1) + &k0;
-        if k > 1_000_000 {
-            return None;
-        }
-        let candidate = rug::Rational::from((h.clone(), k.clone()));
-        let gap = Float::with_val(x.prec(), rug::Rational::from(&candidate - &target)).abs();
-        if gap <= allowed {
-            return Some(Q::new(
-                h.to_string().parse().ok()?,
-                k.to_string().parse().ok()?,
-            ));
-        }
-        let fraction = rest.clone() - rug::Rational::from(a.clone());
-        if fraction == 0 {
-            return None;
-        }
-        rest = fraction.recip();
-        h0 = std::mem::replace(&mut h1, h);
-        k0 = std::mem::replace(&mut k1, k);
-    }
-    None
-}
-
 /// Diagnosis from values alone.
 fn numeric_diagnosis(claim: &Claim, run: &PointRun, prec: u32, tol: &Float) -> Diagnosis {
     let values = run.truth.point.values.clone();
@@ -593,36 +476,4 @@ fn growth_diagnosis(
         return Some(d);
     }
     None
-}
-
-fn numeric_quantity_digits(v: &LogReal, prec: u32, tol: &Float, digits: u32) -> Quantity {
-    let mut q = numeric_quantity(v, prec, tol);
-    q.decimal = v.to_decimal(digits);
-    q
-}
-
-fn float_quantity(x: &Float, tol: &Float) -> Quantity {
-    // An estimate from k = 10^5 and 10^6: about five digits are meaningful.
-    Quantity {
-        decimal: decimal::float_to_decimal(x, 6),
-        exact: None,
-        near: simple_fraction(x, tol)
-            .filter(|q| q.denom().abs() <= BigInt::from(SMALL_DENOMINATOR)),
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn simple_fractions_are_found_and_noise_is_not() {
-        let tol = Float::with_val(64, 1e-20);
-        let x = Float::with_val(200, 7) / 2u32;
-        assert_eq!(simple_fraction(&x, &tol), Some(crate::algebra::q(7, 2)));
-        let pi = Float::with_val(200, Constant::Pi);
-        assert_eq!(simple_fraction(&pi, &tol), None);
-        let x = Float::with_val(200, -2) / 7u32;
-        assert_eq!(simple_fraction(&x, &tol), Some(crate::algebra::q(-2, 7)));
-    }
 }
