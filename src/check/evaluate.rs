@@ -453,6 +453,17 @@ mod tests {
             value("k! + k! - k!", 1_000_000, 12).unwrap(),
             value("k!", 1_000_000, 12).unwrap()
         );
+        // 10^6! (mpmath 1.3.0, mp.dps = 60: factorial(10**6) = 8.26393168833124e+5565708)
+        assert_eq!(
+            value("k!", 1_000_000, 15).unwrap(),
+            "8.26393168833124e5565708"
+        );
+        // Γ(9/2)Γ(k)/Γ(k+7/2) at k = 10^6 (mpmath 1.3.0, mp.dps = 60:
+        // gamma(4.5)*gamma(10**6)/gamma(10**6+3.5) = 1.1631677507917921575e-20)
+        assert_eq!(
+            value("Gamma(9/2) Gamma(k) / Gamma(k + 7/2)", 1_000_000, 20).unwrap(),
+            "1.1631677507917921575e-20"
+        );
         assert!(value("Gamma(k - 3)", 2, 10).is_err());
         assert!(value("sqrt(-p)", 1, 10).is_err());
     }

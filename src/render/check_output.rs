@@ -67,7 +67,19 @@ fn ratio_node(r: &RatFunc, index: &str) -> Node {
 }
 
 fn exact_node(v: &ExactValue, index: &str) -> Node {
-    let rational = to_node::ratfunc(&v.rational);
+    // A function of one parameter is shown split into its linear factors: 1/(p − 1)², not
+    // 1/(p² − 2p + 1).
+    let variables = v.rational.variables();
+    let rational = match variables.iter().next() {
+        Some(only)
+            if variables.len() == 1
+                && (v.rational.numer().degree_in(only) > 1
+                    || v.rational.denom().degree_in(only) > 1) =>
+        {
+            ratio_node(&v.rational, only)
+        }
+        _ => to_node::ratfunc(&v.rational),
+    };
     if v.half_pi == 0 {
         return rational;
     }
