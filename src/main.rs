@@ -96,55 +96,10 @@ enum TableFormat {
 /// Largest `--digits` accepted.
 const MAX_DIGITS: u32 = 10_000;
 
-/// The output and whether the claim holds (exit 1 when a claim is refuted).
-fn run(cli: Cli) -> Result<(String, bool), Error> {
+fn run(cli: Cli) -> Result<String, Error> {
     match cli.command {
-        Command::Check {
-            input,
-            claim,
-            params,
-            base,
-            digits,
-            format,
-        } => {
-            use telescope::check::{check_claim, CheckError, CheckRequest, Verdict, MIN_DIGITS};
-            if !(MIN_DIGITS..=MAX_DIGITS).contains(&digits) {
-                return Err(Error::Usage(format!(
-                    "--digits {digits}: choose {MIN_DIGITS} to {MAX_DIGITS} for a check"
-                )));
-            }
-            let input = session::read_input(&input)?;
-            let problem = session::load_problem(&input)?;
-            let values = session::parse_values(&problem, &params)?;
-            let base = base
-                .map(|b| session::parse_value("--base", &b))
-                .transpose()?;
-            let request = CheckRequest {
-                claim: claim.clone(),
-                values,
-                base,
-                digits,
-            };
-            let report = check_claim(&problem, &request).map_err(|e| match e {
-                CheckError::Claim(diagnostic) => Error::Input {
-                    input: session::Input {
-                        name: "--claim".into(),
-                        text: claim.clone(),
-                    },
-                    diagnostic,
-                },
-                CheckError::Rule(diagnostic) => Error::Input {
-                    input: input.clone(),
-                    diagnostic,
-                },
-            })?;
-            let holds = report.verdict != Verdict::Refuted;
-            let out = match format {
-                CheckFormat::Text => render::check_text(&report),
-                CheckFormat::Json => pretty(&render::check_json(&report)),
-            };
-            Ok((out, holds))
-        }
+        // `main` calls `run_check` itself, to turn a refuted claim into exit code 1.
+        command @ Command::Check { .. } => run_check(command).map(|(out, _)| out),
         Command::Solve {
             input,
             params,
@@ -154,14 +109,11 @@ fn run(cli: Cli) -> Result<(String, bool), Error> {
             let problem = session::load_problem(&input)?;
             let values = session::parse_values(&problem, &params)?;
             let solution = session::run_solve(&input, &problem, &values)?;
-            Ok((
-                match format {
-                    SolveFormat::Text => render::solve_text(&problem, &solution),
-                    SolveFormat::Latex => render::solve_latex(&problem, &solution),
-                    SolveFormat::Json => pretty(&render::solve_json(&problem, &solution)),
-                },
-                true,
-            ))
+            Ok(match format {
+                SolveFormat::Text => render::solve_text(&problem, &solution),
+                SolveFormat::Latex => render::solve_latex(&problem, &solution),
+                SolveFormat::Json => pretty(&render::solve_json(&problem, &solution)),
+            })
         }
         Command::Table {
             input,
@@ -198,16 +150,65 @@ fn run(cli: Cli) -> Result<(String, bool), Error> {
                     input: input.clone(),
                     diagnostic,
                 })?;
-            Ok((
-                match format {
-                    TableFormat::Text => render::table_text(&table),
-                    TableFormat::Csv => render::table_csv(&table),
-                    TableFormat::Json => pretty(&render::table_json(&table)),
-                },
-                true,
-            ))
+            Ok(match format {
+                TableFormat::Text => render::table_text(&table),
+                TableFormat::Csv => render::table_csv(&table),
+                TableFormat::Json => pretty(&render::table_json(&table)),
+            })
         }
     }
+}
+
+/// `telescope check`: the report, and whether the claim holds (proved or holds numerically).
+fn run_check(command: Command) -> Result<(String, bool), Error> {
+    use telescope::check::{check_claim, CheckError, CheckRequest, Verdict, MIN_DIGITS};
+    let Command::Check {
+        input,
+        claim,
+        params,
+        base,
+        digits,
+        format,
+    } = command
+    else {
+        return Err(Error::Usage("not a check".into()));
+    };
+    if !(MIN_DIGITS..=MAX_DIGITS).contains(&digits) {
+        return Err(Error::Usage(format!(
+            "--digits {digits}: choose {MIN_DIGITS} to {MAX_DIGITS} for a check"
+        )));
+    }
+    let input = session::read_input(&input)?;
+    let problem = session::load_problem(&input)?;
+    let values = session::parse_values(&problem, &params)?;
+    let base = base
+        .map(|b| session::parse_value("--base", &b))
+        .transpose()?;
+    let request = CheckRequest {
+        claim: claim.clone(),
+        values,
+        base,
+        digits,
+    };
+    let report = check_claim(&problem, &request).map_err(|e| match e {
+        // Claim errors point into the claim, rule errors into the rule.
+        CheckError::Claim(diagnostic) => Error::Input {
+            input: session::Input {
+                name: "--claim".into(),
+                text: claim.clone(),
+            },
+            diagnostic,
+        },
+        CheckError::Rule(diagnostic) => Error::Input {
+            input: input.clone(),
+            diagnostic,
+        },
+    })?;
+    let out = match format {
+        CheckFormat::Text => render::check_text(&report),
+        CheckFormat::Json => pretty(&render::check_json(&report)),
+    };
+    Ok((out, report.verdict != Verdict::Refuted))
 }
 
 fn pretty(v: &serde_json::Value) -> String {
@@ -223,14 +224,15 @@ fn main() -> ExitCode {
             return ExitCode::from(code);
         }
     };
-    match run(cli) {
+    let outcome = match cli.command {
+        Command::Check { .. } => run_check(cli.command),
+        _ => run(cli).map(|out| (out, true)),
+    };
+    match outcome {
         Ok((out, holds)) => {
             print!("{out}");
-            if holds {
-                ExitCode::SUCCESS
-            } else {
-                ExitCode::from(1)
-            }
+            // A refuted claim is a result, not an error: its report goes to stdout, exit 1.
+            ExitCode::from(if holds { 0 } else { 1 })
         }
         Err(e) => {
             eprint!("{}", e.render());
