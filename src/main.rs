@@ -53,6 +53,30 @@ enum Command {
         #[arg(long, value_enum, default_value_t = TableFormat::Text)]
         format: TableFormat,
     },
+    /// Prove or refute a claimed closed form, and say what is wrong with it.
+    Check {
+        /// A rule in quotes, a model file, or - for standard input.
+        input: String,
+        /// The claimed a(k), e.g. "n(1) * (7/2) * Beta(k, 7/2)".
+        #[arg(long, value_name = "EXPR", allow_hyphen_values = true)]
+        claim: String,
+        #[arg(long = "param", value_name = "NAME=VALUE")]
+        params: Vec<String>,
+        /// The base term's value a(b) (default 1).
+        #[arg(long, value_name = "VALUE")]
+        base: Option<String>,
+        /// Significant digits of the numeric comparison.
+        #[arg(long, default_value_t = telescope::check::DEFAULT_DIGITS)]
+        digits: u32,
+        #[arg(long, value_enum, default_value_t = CheckFormat::Text)]
+        format: CheckFormat,
+    },
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum CheckFormat {
+    Text,
+    Json,
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -74,6 +98,8 @@ const MAX_DIGITS: u32 = 10_000;
 
 fn run(cli: Cli) -> Result<String, Error> {
     match cli.command {
+        // `main` calls `run_check` itself, to turn a refuted claim into exit code 1.
+        command @ Command::Check { .. } => run_check(command).map(|(out, _)| out),
         Command::Solve {
             input,
             params,
@@ -162,6 +188,58 @@ fn run(cli: Cli) -> Result<String, Error> {
     }
 }
 
+/// `telescope check`: the report, and whether the claim holds (proved or holds numerically).
+fn run_check(command: Command) -> Result<(String, bool), Error> {
+    use telescope::check::{check_claim, CheckError, CheckRequest, Verdict, MIN_DIGITS};
+    let Command::Check {
+        input,
+        claim,
+        params,
+        base,
+        digits,
+        format,
+    } = command
+    else {
+        return Err(Error::Usage("not a check".into()));
+    };
+    if !(MIN_DIGITS..=MAX_DIGITS).contains(&digits) {
+        return Err(Error::Usage(format!(
+            "--digits {digits}: choose {MIN_DIGITS} to {MAX_DIGITS} for a check"
+        )));
+    }
+    let input = session::read_input(&input)?;
+    let problem = session::load_problem(&input)?;
+    let values = session::parse_values(&problem, &params)?;
+    let base = base
+        .map(|b| session::parse_value("--base", &b))
+        .transpose()?;
+    let request = CheckRequest {
+        claim: claim.clone(),
+        values,
+        base,
+        digits,
+    };
+    let report = check_claim(&problem, &request).map_err(|e| match e {
+        // Claim errors point into the claim, rule errors into the rule.
+        CheckError::Claim(diagnostic) => Error::Input {
+            input: session::Input {
+                name: "--claim".into(),
+                text: claim.clone(),
+            },
+            diagnostic,
+        },
+        CheckError::Rule(diagnostic) => Error::Input {
+            input: input.clone(),
+            diagnostic,
+        },
+    })?;
+    let out = match format {
+        CheckFormat::Text => render::check_text(&report),
+        CheckFormat::Json => pretty(&render::check_json(&report)),
+    };
+    Ok((out, report.verdict != Verdict::Refuted))
+}
+
 fn pretty(v: &serde_json::Value) -> String {
     serde_json::to_string_pretty(v).expect("JSON values always serialise") + "\n"
 }
@@ -175,10 +253,15 @@ fn main() -> ExitCode {
             return ExitCode::from(code);
         }
     };
-    match run(cli) {
-        Ok(out) => {
+    let outcome = match cli.command {
+        Command::Check { .. } => run_check(cli.command),
+        _ => run(cli).map(|out| (out, true)),
+    };
+    match outcome {
+        Ok((out, holds)) => {
             print!("{out}");
-            ExitCode::SUCCESS
+            // A refuted claim is a result, not an error: its report goes to stdout, exit 1.
+            ExitCode::from(if holds { 0 } else { 1 })
         }
         Err(e) => {
             eprint!("{}", e.render());

@@ -1,6 +1,7 @@
 //! Output: text (Unicode), LaTeX, JSON and CSV. Renderers never compute mathematics: they lay
 //! out what `solve`, `table` and the analyses produced.
 
+pub mod check_output;
 pub mod greek;
 pub mod latex;
 pub mod model_output;
@@ -14,6 +15,7 @@ pub use model_output::{
     derivation_json, derivation_latex, derivation_text, has_derivation, piecewise_json,
     piecewise_latex, piecewise_text,
 };
+pub use check_output::{check_json, check_text};
 pub use solve_output::{solve_json, solve_latex, solve_text};
 pub use table_output::{table_csv, table_json, table_text};
 
