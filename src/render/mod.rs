@@ -11,11 +11,11 @@ pub mod table_output;
 pub mod text;
 pub mod to_node;
 
+pub use check_output::{check_json, check_text};
 pub use model_output::{
     derivation_json, derivation_latex, derivation_text, has_derivation, piecewise_json,
     piecewise_latex, piecewise_text,
 };
-pub use check_output::{check_json, check_text};
 pub use solve_output::{solve_json, solve_latex, solve_text};
 pub use table_output::{table_csv, table_json, table_text};
 
