@@ -202,7 +202,8 @@ fn power(input: Tokens<'_>) -> PResult<'_, Expr> {
             Some(minus) => (*minus, "an operand"),
             None => (caret, "an exponent"),
         };
-        let (after, exponent) = operand_after(announcer, what, postfix)(after_signs)?;
+        // In an exponent, `k (1-p)` is k times (1-p), not a call: `p^k (1-p)^(N-k)`.
+        let (after, exponent) = operand_after(announcer, what, exponent_operand)(after_signs)?;
         exponents.push((minuses, exponent));
         rest = after;
     }
@@ -223,7 +224,16 @@ fn power(input: Tokens<'_>) -> PResult<'_, Expr> {
 
 /// `k!`, `(k+1)!`; `k!!` is `(k!)!`.
 fn postfix(input: Tokens<'_>) -> PResult<'_, Expr> {
-    let (input, inner) = atom(input)?;
+    postfix_with(input, true)
+}
+
+/// The operand of `^`: like `postfix`, but a name followed by a space and `(` ends at the name.
+fn exponent_operand(input: Tokens<'_>) -> PResult<'_, Expr> {
+    postfix_with(input, false)
+}
+
+fn postfix_with(input: Tokens<'_>, spaced_calls: bool) -> PResult<'_, Expr> {
+    let (input, inner) = atom_with(input, spaced_calls)?;
     let (input, bangs) = many0(punct(TokenKind::Bang))(input)?;
     let expr = bangs.into_iter().fold(inner, |acc, bang| {
         let span = join(&acc.span, &bang.span);
@@ -232,14 +242,19 @@ fn postfix(input: Tokens<'_>) -> PResult<'_, Expr> {
     Ok((input, expr))
 }
 
+#[cfg(test)]
 fn atom(input: Tokens<'_>) -> PResult<'_, Expr> {
+    atom_with(input, true)
+}
+
+fn atom_with(input: Tokens<'_>, spaced_calls: bool) -> PResult<'_, Expr> {
     let token = peek(input);
     match &token.kind {
         TokenKind::Number(value) => Ok((
             advance(input),
             Expr::new(ExprKind::Number(value.clone()), token.span.clone()),
         )),
-        TokenKind::Name(_) => named(input),
+        TokenKind::Name(_) => named_with(input, spaced_calls),
         TokenKind::LParen => parenthesised(input),
         // `for` after an operator means the operand is missing, not misused.
         TokenKind::Keyword(Keyword::For) => no_match(input),
@@ -302,7 +317,13 @@ pub(crate) fn closing<'t>(
 }
 
 /// A name, possibly subscripted (`n_k`, `n_{k-1}`) or called (`n(k-1)`, `Gamma(k, 2)`).
+#[cfg(test)]
 fn named(input: Tokens<'_>) -> PResult<'_, Expr> {
+    named_with(input, true)
+}
+
+/// `spaced_calls: false` leaves `name (…)` as the name alone (used in exponents).
+fn named_with(input: Tokens<'_>, spaced_calls: bool) -> PResult<'_, Expr> {
     let (rest, (name, name_span)) = name(input)?;
     if let Ok((rest, underscore)) = punct(TokenKind::Underscore)(rest) {
         let (rest, index) = subscript(underscore)(rest)?;
@@ -313,7 +334,10 @@ fn named(input: Tokens<'_>) -> PResult<'_, Expr> {
         };
         return Ok((rest, Expr::new(kind, span)));
     }
-    if let Ok((after_open, open)) = punct(TokenKind::LParen)(rest) {
+    let call = punct(TokenKind::LParen)(rest)
+        .ok()
+        .filter(|(_, open)| spaced_calls || open.span.start == name_span.end);
+    if let Some((after_open, open)) = call {
         let spaced = open.span.start != name_span.end;
         let (after_args, args) = arguments(open)(after_open)?;
         let (after_close, close) = closing(open, TokenKind::RParen, "argument list")(after_args)?;
@@ -452,6 +476,13 @@ mod tests {
         assert_eq!(run(power, "2^3^2").0, "(2 ^ (3 ^ 2))");
         assert_eq!(run(power, "2^-1").0, "(2 ^ (-1))");
         assert_eq!(run(power, "k^-k^2").0, "(k ^ (-(k ^ 2)))");
+    }
+
+    #[test]
+    fn a_spaced_parenthesis_after_an_exponent_name_is_a_product() {
+        // p^k (1-p)^(N-k): the binomial pmf shape (common practice notation)
+        assert_eq!(shape("p^k (1-p)^(N-k)"), "((p ^ k) * ((1 - p) ^ (N - k)))");
+        assert_eq!(shape("x^f(2)"), "(x ^ f(2))");
     }
 
     #[test]
