@@ -20,6 +20,7 @@ pub mod numeric;
 pub mod ratio;
 pub mod render;
 pub mod session;
+pub mod simplify;
 pub mod solve;
 pub mod syntax;
 pub mod table;

@@ -31,6 +31,12 @@ enum Command {
         params: Vec<String>,
         #[arg(long, value_enum, default_value_t = SolveFormat::Text)]
         format: SolveFormat,
+        /// Add the derivation: the telescoped product, the Gamma form, every rewrite.
+        #[arg(long)]
+        steps: bool,
+        /// With --format latex: a complete document (pdflatex + amsmath).
+        #[arg(long)]
+        standalone: bool,
     },
     /// Direct products next to the closed form, with their relative difference.
     Table {
@@ -78,14 +84,22 @@ fn run(cli: Cli) -> Result<String, Error> {
             input,
             params,
             format,
+            steps,
+            standalone,
         } => {
+            if standalone && !matches!(format, SolveFormat::Latex) {
+                return Err(Error::Usage(
+                    "--standalone makes a LaTeX document: use it with --format latex".into(),
+                ));
+            }
+            let layout = render::SolveLayout { steps, standalone };
             let input = session::read_input(&input)?;
             let problem = session::load_problem(&input)?;
             let values = session::parse_values(&problem, &params)?;
             let solution = session::run_solve(&input, &problem, &values)?;
             Ok(match format {
-                SolveFormat::Text => render::solve_text(&problem, &solution),
-                SolveFormat::Latex => render::solve_latex(&problem, &solution),
+                SolveFormat::Text => render::solve_text_with(&problem, &solution, layout),
+                SolveFormat::Latex => render::solve_latex_with(&problem, &solution, layout),
                 SolveFormat::Json => pretty(&render::solve_json(&problem, &solution)),
             })
         }

@@ -4,7 +4,7 @@
 use std::collections::BTreeMap;
 
 use telescope::model::build_problem;
-use telescope::render;
+use telescope::render::{self, SolveLayout};
 use telescope::solve::solve;
 
 fn examples() -> Vec<(String, String)> {
@@ -41,6 +41,18 @@ fn every_example_renders_in_every_format() {
         insta::assert_json_snapshot!(
             format!("{name}_json"),
             render::solve_json(&problem, &solution)
+        );
+        let steps = SolveLayout {
+            steps: true,
+            standalone: false,
+        };
+        insta::assert_snapshot!(
+            format!("{name}_steps_text"),
+            render::solve_text_with(&problem, &solution, steps)
+        );
+        insta::assert_snapshot!(
+            format!("{name}_steps_latex"),
+            render::solve_latex_with(&problem, &solution, steps)
         );
     }
 }

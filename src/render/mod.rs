@@ -1,6 +1,7 @@
 //! Output: text (Unicode), LaTeX, JSON and CSV. Renderers never compute mathematics: they lay
 //! out what `solve`, `table` and the analyses produced.
 
+pub mod derivation;
 pub mod greek;
 pub mod latex;
 pub mod node;
@@ -9,7 +10,9 @@ pub mod table_output;
 pub mod text;
 pub mod to_node;
 
-pub use solve_output::{solve_json, solve_latex, solve_text};
+pub use solve_output::{
+    solve_json, solve_latex, solve_latex_with, solve_text, solve_text_with, SolveLayout,
+};
 pub use table_output::{table_csv, table_json, table_text};
 
 use serde_json::{json, Value};

@@ -4,6 +4,7 @@
 //! rising products, the reflected form for factors written `β − k`); `support` finds where the
 //! sequence ends and which parameter values the result excludes.
 
+pub mod ranges;
 mod support;
 mod telescope;
 
@@ -19,6 +20,7 @@ use crate::closed_form::ClosedForm;
 use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
 use crate::ratio::Ratio;
+use crate::simplify::{simplify, Context, Step};
 
 /// Everything `solve` knows about a rule.
 #[derive(Clone, Debug)]
@@ -29,6 +31,10 @@ pub struct Solution {
     pub ratio: Ratio,
     /// The telescoped Gamma-quotient form.
     pub closed_form: ClosedForm,
+    /// The simplest equal form (see `simplify::measure`).
+    pub simplest: ClosedForm,
+    /// How `simplest` follows from `closed_form`, one rule at a time.
+    pub steps: Vec<Step>,
     pub support: Support,
     pub conditions: Vec<Condition>,
     /// Parameter values the user supplied (used to decide conditions and the support).
@@ -43,11 +49,23 @@ pub fn solve(problem: &Problem, values: &BTreeMap<String, Q>) -> Result<Solution
     let support = support::find_support(problem, &ratio, values)?;
     let conditions = support::conditions(problem, &ratio, values)?;
     let closed_form = telescope(&problem.sequence, &ratio, &base_index, sign_flips);
+    let context = Context {
+        base_index: base_index.clone(),
+        integer_params: problem
+            .params
+            .iter()
+            .filter(|p| p.integer)
+            .map(|p| p.name.clone())
+            .collect(),
+    };
+    let simplified = simplify(&closed_form, &context);
     Ok(Solution {
         sequence: problem.sequence.clone(),
         base_index,
         ratio,
         closed_form,
+        simplest: simplified.simplest,
+        steps: simplified.steps,
         support,
         conditions,
         values: values.clone(),

@@ -10,6 +10,7 @@ use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
 use crate::ratio::{LinearFactor, Ratio};
 
+use super::ranges::{range_contains, takes_integer_at_least, vanishes_somewhere, Verdict};
 use super::telescope::numeric_shift;
 
 /// The index range on which a(k) is non-zero.
@@ -54,8 +55,13 @@ pub enum ConditionKind {
 pub enum Status {
     /// Not decided from what is known.
     Undecided,
-    /// Holds; the string says what settles it (`rho = 3/10`, `the range 0 < rho < 1`).
+    /// Not decided, and the ranges could not settle it; the string says why (several
+    /// parameters, the range leaves both outcomes possible, an irrational breakpoint).
+    NotDecided(String),
+    /// Holds; the string says what settles it (`rho = 3/10`).
     Holds(String),
+    /// Holds for every value the declared ranges of these parameters allow.
+    SettledByRange(Vec<String>),
     /// Fails; the string says why.
     Fails(String),
 }
@@ -90,7 +96,11 @@ pub fn find_support(
                 }
             }
             None => {
-                if symbolic.is_none() {
+                // A root the declared ranges keep off the integers ≥ the first index never
+                // ends the support: `k + r − 1` with r > 0 is non-zero for every k ≥ 1.
+                let reachable =
+                    takes_integer_at_least(&root, first_index, problem, values) != Verdict::Never;
+                if reachable && symbolic.is_none() {
                     let certain = is_integer_valued(&root, problem);
                     symbolic = Some((&root - &RatFunc::one(), certain));
                 }
@@ -176,6 +186,7 @@ pub fn conditions(
                 &mut out,
                 kind,
                 "the rule's coefficients divide by this expression",
+                problem,
                 values,
             );
         }
@@ -188,6 +199,7 @@ pub fn conditions(
                 &mut out,
                 kind,
                 "otherwise the constant factor of the rule is zero and the sequence stops at the base term",
+                problem,
                 values,
             );
         }
@@ -206,6 +218,7 @@ pub fn conditions(
             &mut out,
             kind,
             "a factor of the rule's denominator would vanish at that k",
+            problem,
             values,
         );
     }
@@ -225,12 +238,16 @@ fn push_unique(
     out: &mut Vec<Condition>,
     kind: ConditionKind,
     reason: &str,
+    problem: &Problem,
     values: &BTreeMap<String, Q>,
 ) {
     if out.iter().any(|c| c.kind == kind) {
         return;
     }
-    let status = decide(&kind, values);
+    let status = match decide(&kind, values) {
+        Status::Undecided => decide_from_ranges(&kind, problem, values),
+        decided => decided,
+    };
     out.push(Condition {
         kind,
         reason: reason.to_string(),
@@ -296,5 +313,50 @@ fn decide(kind: &ConditionKind, values: &BTreeMap<String, Q>) -> Status {
             Ok(_) => Status::Holds(shown(&expr.variables())),
             Err(_) => Status::Undecided,
         },
+    }
+}
+
+/// Settles a condition from the declared parameter ranges where that is exact (see `ranges`).
+fn decide_from_ranges(
+    kind: &ConditionKind,
+    problem: &Problem,
+    values: &BTreeMap<String, Q>,
+) -> Status {
+    let settled = |expr: &RatFunc| {
+        Status::SettledByRange(
+            expr.eval_partial(values)
+                .map(|e| e.variables().into_iter().collect())
+                .unwrap_or_default(),
+        )
+    };
+    match kind {
+        ConditionKind::NotEqual { param, value } => match range_contains(problem, param, value) {
+            Some(false) => Status::SettledByRange(vec![param.clone()]),
+            Some(true) => {
+                Status::NotDecided(format!("{param} = {value} lies inside the declared range"))
+            }
+            None => Status::Undecided,
+        },
+        ConditionKind::NonZero(expr) => match vanishes_somewhere(expr, problem, values) {
+            Verdict::Never => settled(expr),
+            Verdict::Always => Status::Fails("it vanishes on the whole declared range".into()),
+            Verdict::Sometimes => {
+                Status::NotDecided("it vanishes somewhere inside the declared range".into())
+            }
+            Verdict::Open(why) => Status::NotDecided(why),
+        },
+        ConditionKind::NotIntegerAtLeast { expr, min } => {
+            match takes_integer_at_least(expr, min, problem, values) {
+                Verdict::Never => settled(expr),
+                Verdict::Always => Status::Fails(
+                    "for every value the declared range allows, a denominator factor vanishes inside the rule's range"
+                        .into(),
+                ),
+                Verdict::Sometimes => Status::NotDecided(
+                    "the declared range contains values where it fails".into(),
+                ),
+                Verdict::Open(why) => Status::NotDecided(why),
+            }
+        }
     }
 }
