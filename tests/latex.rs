@@ -255,3 +255,35 @@ fn every_standalone_derivation_compiles_with_pdflatex() {
     }
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+fn telescope(args: &[&str]) -> std::process::Output {
+    Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(args)
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .output()
+        .expect("binary runs")
+}
+
+#[test]
+fn the_flags_reach_the_binary() {
+    let o = telescope(&[
+        "solve",
+        "examples/citation_growth.rule",
+        "--format",
+        "latex",
+        "--steps",
+        "--standalone",
+    ]);
+    assert!(o.status.success());
+    let out = String::from_utf8_lossy(&o.stdout);
+    assert!(out.starts_with("\\documentclass{article}"), "{out}");
+    assert!(out.contains("\\mathrm{B}"), "{out}");
+    assert!(out.contains("DLMF 5.12.1"), "{out}");
+    let o = telescope(&["solve", "examples/citation_growth.rule", "--steps"]);
+    let out = String::from_utf8_lossy(&o.stdout);
+    assert!(out.contains("derivation\n"), "{out}");
+    // A document needs LaTeX: --standalone with text output is a usage error (exit 2).
+    let o = telescope(&["solve", "examples/citation_growth.rule", "--standalone"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("--format latex"));
+}

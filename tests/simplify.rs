@@ -263,6 +263,10 @@ fn linear_preferential_attachment_is_a_plain_rational_function() {
         "preferential_attachment_text",
         render::solve_text(&problem, &solution)
     );
+    insta::assert_snapshot!(
+        "preferential_attachment_latex",
+        render::solve_latex(&problem, &solution)
+    );
 }
 
 #[test]
@@ -285,6 +289,7 @@ fn yule_simon_is_a_beta_function() {
         Factor::Linear { arg, exponent: 1 } if !arg.depends_on_k()
     ));
     insta::assert_snapshot!("yule_simon_text", render::solve_text(&problem, &solution));
+    insta::assert_snapshot!("yule_simon_latex", render::solve_latex(&problem, &solution));
 }
 
 #[test]
@@ -299,6 +304,7 @@ fn poisson_is_lambda_to_the_k_over_k_factorial() {
     assert!(factors.iter().any(|f| matches!(f, Factor::Power { .. })));
     assert_eq!(factors.len(), 2);
     insta::assert_snapshot!("poisson_text", render::solve_text(&problem, &solution));
+    insta::assert_snapshot!("poisson_latex", render::solve_latex(&problem, &solution));
 }
 
 #[test]
@@ -313,6 +319,7 @@ fn binomial_is_a_binomial_coefficient_times_a_power() {
     assert!(matches!(factors[1], Factor::Power { .. }));
     assert_eq!(factors.len(), 2);
     insta::assert_snapshot!("binomial_text", render::solve_text(&problem, &solution));
+    insta::assert_snapshot!("binomial_latex", render::solve_latex(&problem, &solution));
 }
 
 #[test]
@@ -326,6 +333,10 @@ fn negative_binomial_is_a_binomial_coefficient() {
     insta::assert_snapshot!(
         "negative_binomial_text",
         render::solve_text(&problem, &solution)
+    );
+    insta::assert_snapshot!(
+        "negative_binomial_latex",
+        render::solve_latex(&problem, &solution)
     );
 }
 

@@ -15,9 +15,11 @@ fn factorial(n: u32) -> BigInt {
     (1..=n).fold(BigInt::one(), |acc, i| acc * BigInt::from(i))
 }
 
-/// Γ(n) = (n − 1)! for integers 1 ≤ n ≤ 60 (DLMF 5.4.1), folded into the coefficient.
+/// Γ(n) = (n − 1)! for integers 1 ≤ n ≤ 60 (DLMF 5.4.1), folded into the coefficient; all
+/// such factors at once, since evaluating one never stops another from being evaluated.
 pub fn gamma_at_integer(p: &Product, _: &Context) -> Vec<Product> {
-    let mut out = Vec::new();
+    let mut taken = Vec::new();
+    let mut scale = RatFunc::one();
     for (i, arg, e) in gammas(p) {
         let Some(n) = integer_value(arg).and_then(|n| n.to_u32()) else {
             continue;
@@ -26,11 +28,15 @@ pub fn gamma_at_integer(p: &Product, _: &Context) -> Vec<Product> {
             continue;
         }
         let value = RatFunc::constant(Q::from_integer(factorial(n - 1)));
-        if let Some(scale) = value.pow(e) {
-            out.push(rewrite(p, &[(i, e)], vec![], &scale));
+        if let Some(power) = value.pow(e) {
+            scale = &scale * &power;
+            taken.push((i, e));
         }
     }
-    out
+    if taken.is_empty() {
+        return Vec::new();
+    }
+    vec![rewrite(p, &taken, vec![], &scale)]
 }
 
 /// Γ(m + 1/2) / √π as an exact rational, for any integer m: Γ(1/2) = √π (DLMF 5.4.6) and
@@ -50,9 +56,11 @@ pub fn half_integer_gamma_over_sqrt_pi(m: i64) -> Q {
     value
 }
 
-/// Γ(m + 1/2) → rational · √π (DLMF 5.4.6, 5.5.1).
+/// Γ(m + 1/2) → rational · √π (DLMF 5.4.6, 5.5.1), all such factors at once.
 pub fn gamma_at_half_integer(p: &Product, _: &Context) -> Vec<Product> {
-    let mut out = Vec::new();
+    let mut taken = Vec::new();
+    let mut added = Vec::new();
+    let mut scale = RatFunc::one();
     for (i, arg, e) in gammas(p) {
         let Some(x) = constant_value(arg) else {
             continue;
@@ -63,12 +71,16 @@ pub fn gamma_at_half_integer(p: &Product, _: &Context) -> Vec<Product> {
         }
         let m = shifted.to_integer().to_i64().unwrap_or(0);
         let ratio = RatFunc::constant(half_integer_gamma_over_sqrt_pi(m));
-        if let Some(scale) = ratio.pow(e) {
-            let root = Factor::SqrtPi { half_exponent: e };
-            out.push(rewrite(p, &[(i, e)], vec![root], &scale));
+        if let Some(power) = ratio.pow(e) {
+            scale = &scale * &power;
+            taken.push((i, e));
+            added.push(Factor::SqrtPi { half_exponent: e });
         }
     }
-    out
+    if taken.is_empty() {
+        return Vec::new();
+    }
+    vec![rewrite(p, &taken, added, &scale)]
 }
 
 /// Whether a `k`-free expression is an integer whenever the parameters are: a polynomial with
@@ -84,9 +96,11 @@ fn integer_valued(c: &RatFunc, context: &Context) -> bool {
 }
 
 /// Γ(x + 1) = x! (DLMF 5.4.1) where x = ±k + c is a non-negative integer on the support:
-/// `k + n` with b + n ≥ 0, or `c − k` with c integer-valued (finite support ends there).
+/// `k + n` with b + n ≥ 0, or `c − k` with c integer-valued (finite support ends there). All
+/// such factors at once: a factorial always reads better than its Gamma.
 pub fn gamma_to_factorial(p: &Product, context: &Context) -> Vec<Product> {
-    let mut out = Vec::new();
+    let mut taken = Vec::new();
+    let mut added = Vec::new();
     for (i, arg, e) in gammas(p) {
         let x = arg.shifted(&-RatFunc::one());
         let natural = match x.k_coeff {
@@ -97,14 +111,17 @@ pub fn gamma_to_factorial(p: &Product, context: &Context) -> Vec<Product> {
             _ => false,
         };
         if natural {
-            let f = Factor::Factorial {
+            taken.push((i, e));
+            added.push(Factor::Factorial {
                 arg: x,
                 exponent: e,
-            };
-            out.push(rewrite(p, &[(i, e)], vec![f], &RatFunc::one()));
+            });
         }
     }
-    out
+    if taken.is_empty() {
+        return Vec::new();
+    }
+    vec![rewrite(p, &taken, added, &RatFunc::one())]
 }
 
 /// Convenience for tests and callers: the Gamma factor Γ(arg)^e.
@@ -132,11 +149,10 @@ mod tests {
     fn gamma_six_over_gamma_three_is_sixty() {
         // Γ(6) = 5! = 120, Γ(3) = 2! = 2 (DLMF 5.4.1)
         let p = product(vec![gamma(constant(6, 1), 1), gamma(constant(3, 1), -1)]);
-        let once = gamma_at_integer(&p, &Context::default());
-        assert_eq!(once.len(), 2);
-        let twice = gamma_at_integer(&once[0], &Context::default());
-        assert_eq!(twice[0].coefficient, RatFunc::from_integer(60));
-        assert!(twice[0].factors.is_empty());
+        let out = gamma_at_integer(&p, &Context::default());
+        assert_eq!(out.len(), 1);
+        assert_eq!(out[0].coefficient, RatFunc::from_integer(60));
+        assert!(out[0].factors.is_empty());
     }
 
     #[test]
@@ -171,11 +187,24 @@ mod tests {
             gamma(Affine::k_plus(RatFunc::constant(q(1, 2))), 1),
         ]);
         let out = gamma_to_factorial(&p, &context);
-        assert_eq!(out.len(), 2);
+        assert_eq!(out.len(), 1);
         assert!(out[0].factors.contains(&Factor::Factorial {
             arg: Affine::k_plus(RatFunc::zero()),
             exponent: -1
         }));
-        assert!(gamma_to_factorial(&p, &Context::default()).len() == 1);
+        assert!(out[0].factors.contains(&Factor::Factorial {
+            arg: Affine::c_minus_k(RatFunc::var("N")),
+            exponent: -1
+        }));
+        // Γ(k + 1/2) stays; without N declared integer only Γ(k + 1) converts.
+        let plain = gamma_to_factorial(&p, &Context::default());
+        assert_eq!(
+            plain[0]
+                .factors
+                .iter()
+                .filter(|f| matches!(f, Factor::Factorial { .. }))
+                .count(),
+            1
+        );
     }
 }

@@ -27,12 +27,17 @@ pub use rules::{rule_named, Context, Rule, RULES};
 pub use tidy::tidy;
 
 use std::cmp::Reverse;
+use std::collections::hash_map::DefaultHasher;
 use std::collections::{BinaryHeap, HashSet};
+use std::hash::{Hash, Hasher};
 
 use crate::closed_form::{ClosedForm, Product};
 
 /// Products expanded before the search stops; the forms met in practice need a few dozen.
 const SEARCH_LIMIT: usize = 400;
+/// The search also stops after this many expansions without a better form: the rewrites
+/// that pay off only after another (Beta pairing, then the recurrence) need two or three.
+const PATIENCE: usize = 24;
 
 /// One derivation step: the rule used and the whole form after it.
 #[derive(Clone, Debug)]
@@ -54,8 +59,13 @@ struct Node {
     depth: usize,
 }
 
-fn key(p: &Product) -> String {
-    format!("{:?}|{:?}", p.coefficient, p.factors)
+/// A fingerprint of a tidy product (a collision could only hide a form, never give a wrong
+/// one).
+fn key(p: &Product) -> u64 {
+    let mut hasher = DefaultHasher::new();
+    p.coefficient.hash(&mut hasher);
+    p.factors.hash(&mut hasher);
+    hasher.finish()
 }
 
 /// Searches the rewrites for the simplest form of `raw`.
@@ -66,15 +76,17 @@ pub fn simplify(raw: &ClosedForm, context: &Context) -> Simplified {
         parent: None,
         depth: 0,
     }];
-    let mut seen: HashSet<String> = HashSet::from([key(&start)]);
+    let mut seen: HashSet<u64> = HashSet::from([key(&start)]);
     let mut queue = BinaryHeap::from([Reverse((measure(&start), 0usize, 0usize))]);
     let mut best = 0usize;
     let mut expanded = 0usize;
+    let mut since_improvement = 0usize;
     while let Some(Reverse((_, _, index))) = queue.pop() {
-        if expanded == SEARCH_LIMIT {
+        if expanded == SEARCH_LIMIT || since_improvement == PATIENCE {
             break;
         }
         expanded += 1;
+        since_improvement += 1;
         for rule in RULES {
             for candidate in (rule.apply)(&nodes[index].product, context) {
                 let candidate = tidy(candidate);
@@ -91,6 +103,7 @@ pub fn simplify(raw: &ClosedForm, context: &Context) -> Simplified {
                 });
                 if (score, depth) < (measure(&nodes[best].product), nodes[best].depth) {
                     best = id;
+                    since_improvement = 0;
                 }
                 queue.push(Reverse((score, depth, id)));
             }

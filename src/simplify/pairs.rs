@@ -116,9 +116,11 @@ pub fn gamma_quotient_to_pochhammer(p: &Product, context: &Context) -> Vec<Produ
     out
 }
 
-/// (x)_n = x(x+1)…(x+n−1) for a short constant length n (DLMF 5.2.4).
+/// (x)_n = x(x+1)…(x+n−1) for a short constant length n (DLMF 5.2.4), all such factors at
+/// once.
 pub fn pochhammer_to_linear(p: &Product, _: &Context) -> Vec<Product> {
-    let mut out = Vec::new();
+    let mut taken = Vec::new();
+    let mut linear = Vec::new();
     for (i, f) in p.factors.iter().enumerate() {
         let Factor::Rising {
             base,
@@ -134,15 +136,16 @@ pub fn pochhammer_to_linear(p: &Product, _: &Context) -> Vec<Product> {
         if n == 0 || n > LONGEST_EXPANDED_POCHHAMMER {
             continue;
         }
-        let linear = (0..n)
-            .map(|step| Factor::Linear {
-                arg: base.shifted(&RatFunc::from_integer(step as i64)),
-                exponent: *exponent,
-            })
-            .collect();
-        out.push(rewrite(p, &[(i, *exponent)], linear, &RatFunc::one()));
+        taken.push((i, *exponent));
+        linear.extend((0..n).map(|step| Factor::Linear {
+            arg: base.shifted(&RatFunc::from_integer(step as i64)),
+            exponent: *exponent,
+        }));
     }
-    out
+    if taken.is_empty() {
+        return Vec::new();
+    }
+    vec![rewrite(p, &taken, linear, &RatFunc::one())]
 }
 
 /// Γ(n + 1)/(Γ(m + 1) Γ(n − m + 1)) = binomial(n, m) (DLMF 1.2.1 with Γ(j + 1) = j!,

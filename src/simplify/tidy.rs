@@ -130,9 +130,12 @@ fn reading_order(a: &Factor, b: &Factor) -> Ordering {
         },
         _ => Ordering::Equal,
     };
-    rank.then(k_first)
-        .then(by_value)
-        .then_with(|| format!("{a:?}").cmp(&format!("{b:?}")))
+    rank.then(k_first).then(by_value).then_with(|| {
+        let symbolic = |f: &Factor| first_argument(f).map(|x| x.constant.to_string());
+        symbolic(a)
+            .cmp(&symbolic(b))
+            .then_with(|| a.exponent().cmp(&b.exponent()))
+    })
 }
 
 /// The canonical shape of `p`.
