@@ -388,3 +388,28 @@ fn the_ranges_simplify_the_support() {
     let (_, solution) = solved("s(k)/s(k-1) = (k + r - 1)/k  for k >= 1");
     assert!(matches!(solution.support.last, SupportEnd::Symbolic { .. }));
 }
+
+#[test]
+fn the_simplest_form_states_what_it_needs_and_yields_where_it_breaks() {
+    // B(k, b) needs b off the poles of Γ (DLMF 5.12.1 with DLMF 5.2.1); the Beta form of the
+    // citation rule has b = (2 − ρ)/(1 − ρ), which is 0 at ρ = 2.
+    let rule = "n(k)/n(k-1) = (1-rho)(k-1)/(1+(1-rho)k)";
+    let (_, solution) = solved(rule);
+    assert!(solution
+        .conditions
+        .iter()
+        .any(|c| c.reason.contains("Beta function of the simplest form")));
+    let problem = build_problem(rule).unwrap();
+    let at_two = BTreeMap::from([("rho".to_string(), Q::from_integer(2.into()))]);
+    let solution = solve(&problem, &at_two).unwrap();
+    // ρ = 2 makes the rule 1 for every k: the telescoped form holds, the Beta form would not.
+    assert_eq!(solution.simplest, solution.closed_form);
+    assert!(solution.steps.is_empty());
+    let v = value(&solution.simplest, &BigInt::from(7), &at_two);
+    assert!(
+        v.rel_diff(
+            &value(&solution.closed_form, &BigInt::from(2), &at_two),
+            256
+        ) < 1e-45f64
+    );
+}

@@ -3,6 +3,7 @@
 use num_bigint::BigInt;
 use serde_json::{json, Value};
 
+use crate::algebra::Q;
 use crate::model::{Param, Problem};
 use crate::solve::{Condition, ConditionKind, Solution, Status, SupportEnd};
 
@@ -53,11 +54,37 @@ pub fn condition_strings(c: &Condition) -> (String, String) {
             )
         }
         ConditionKind::NotIntegerAtLeast { expr, min } => {
+            // −α − 1 ∉ {0, 1, …} reads better as α + 1 ∉ {0, −1, …}: write whichever of
+            // ±expr shows fewer minus signs.
             let n = to_node::ratfunc(expr);
-            let next: BigInt = min + 1;
+            let flipped = to_node::ratfunc(&-expr.clone());
+            let minus_signs = |node: &Node| text::write(node).matches('−').count();
+            // On a tie the flipped form wins: it names the quantity that must avoid the poles
+            // (1/(1 − ρ) ∉ {−2, −3, …}).
+            let (n, first, next) = if minus_signs(&flipped) <= minus_signs(&n) {
+                let first: BigInt = -min.clone();
+                let next: BigInt = -(min + BigInt::from(1));
+                (flipped, first, next)
+            } else {
+                (n, min.clone(), min + 1)
+            };
+            let (first, next) = (
+                to_node::rational(&Q::from_integer(first)),
+                to_node::rational(&Q::from_integer(next)),
+            );
             (
-                format!("{} ∉ {{{min}, {next}, …}}", text::write(&n)),
-                format!("{} \\notin \\{{{min}, {next}, \\dots\\}}", latex::write(&n)),
+                format!(
+                    "{} ∉ {{{}, {}, …}}",
+                    text::write(&n),
+                    text::write(&first),
+                    text::write(&next)
+                ),
+                format!(
+                    "{} \\notin \\{{{}, {}, \\dots\\}}",
+                    latex::write(&n),
+                    latex::write(&first),
+                    latex::write(&next)
+                ),
             )
         }
     }
@@ -153,7 +180,7 @@ fn param_range(p: &Param, latex_out: bool) -> Option<String> {
         (true, true) => "\\le",
         (true, false) => "<",
     };
-    let number = |q: &crate::algebra::Q| {
+    let number = |q: &Q| {
         let n = to_node::rational(q);
         if latex_out {
             latex::write(&n)

@@ -96,7 +96,8 @@ pub fn ratfunc(r: &RatFunc) -> Node {
     let (dl, dn, dc) = negative_count(&den);
     let (fnl, fnn, _) = negative_count(&-num.clone());
     let (fdl, fdn, fdc) = negative_count(&-den.clone());
-    if (fnl + fdl, fnn + fdn, fdc) < (nl + dl, nn + dn, dc) {
+    // A constant denominator keeps its sign (−(α + 1), never (α + 1)/(−1)).
+    if den.as_constant().is_none() && (fnl + fdl, fnn + fdn, fdc) < (nl + dl, nn + dn, dc) {
         num = -num;
         den = -den;
     }

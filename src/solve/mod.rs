@@ -47,7 +47,7 @@ pub fn solve(problem: &Problem, values: &BTreeMap<String, Q>) -> Result<Solution
     let (ratio, sign_flips) =
         telescope::orient_for_poles(&problem.ratio, &problem.first_index, values);
     let support = support::find_support(problem, &ratio, values)?;
-    let conditions = support::conditions(problem, &ratio, values)?;
+    let mut conditions = support::conditions(problem, &ratio, values)?;
     let closed_form = telescope(&problem.sequence, &ratio, &base_index, sign_flips);
     let context = Context {
         base_index: base_index.clone(),
@@ -58,7 +58,16 @@ pub fn solve(problem: &Problem, values: &BTreeMap<String, Q>) -> Result<Solution
             .map(|p| p.name.clone())
             .collect(),
     };
-    let simplified = simplify(&closed_form, &context);
+    let mut simplified = simplify(&closed_form, &context);
+    let extra = support::form_conditions(problem, &simplified.simplest, &conditions, values);
+    if extra.iter().any(|c| matches!(c.status, Status::Fails(_))) {
+        // The supplied values sit where the simplest form breaks but the rule does not
+        // (e.g. B(k, 0)): keep the telescoped form, which holds there.
+        simplified.simplest = closed_form.clone();
+        simplified.steps.clear();
+    } else {
+        conditions.extend(extra);
+    }
     Ok(Solution {
         sequence: problem.sequence.clone(),
         base_index,

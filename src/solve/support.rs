@@ -6,6 +6,7 @@ use num_bigint::BigInt;
 use num_traits::Zero;
 
 use crate::algebra::{rational_roots, Poly, RatFunc, Q};
+use crate::closed_form::{ClosedForm, Factor};
 use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
 use crate::ratio::{LinearFactor, Ratio};
@@ -225,7 +226,7 @@ pub fn conditions(
     for condition in &out {
         if let Status::Fails(why) = &condition.status {
             return Err(Diagnostic::new(
-                format!("the parameter values break a condition of the rule: {why}"),
+                format!("a condition of the rule fails: {why}"),
                 problem.rule_span.clone(),
             )
             .with_help("choose other values with --param"));
@@ -359,4 +360,62 @@ fn decide_from_ranges(
             }
         }
     }
+}
+
+/// What the simplest form needs beyond what the rule itself needs: a Beta function's second
+/// argument and a Gamma of parameters in a numerator must avoid the poles of Γ at 0, −1, −2, …
+/// (DLMF 5.2.1), and a constant divisor must not vanish. Only conditions not already in
+/// `existing` are returned.
+pub fn form_conditions(
+    problem: &Problem,
+    form: &ClosedForm,
+    existing: &[Condition],
+    values: &BTreeMap<String, Q>,
+) -> Vec<Condition> {
+    let mut out: Vec<Condition> = existing.to_vec();
+    let symbolic = |c: &RatFunc| c.as_constant().is_none();
+    for factor in &form.product.factors {
+        match factor {
+            Factor::Beta { b, .. } if !b.depends_on_k() && symbolic(&b.constant) => push_unique(
+                &mut out,
+                ConditionKind::NotIntegerAtLeast {
+                    expr: -b.constant.clone(),
+                    min: BigInt::zero(),
+                },
+                "the Beta function of the simplest form needs its second argument off the poles of Gamma",
+                problem,
+                values,
+            ),
+            Factor::Gamma { arg, exponent }
+                if *exponent > 0 && !arg.depends_on_k() && symbolic(&arg.constant) =>
+            {
+                push_unique(
+                    &mut out,
+                    ConditionKind::NotIntegerAtLeast {
+                        expr: -arg.constant.clone(),
+                        min: BigInt::zero(),
+                    },
+                    "a Gamma function of the simplest form must stay off its poles",
+                    problem,
+                    values,
+                )
+            }
+            Factor::Linear { arg, exponent }
+                if *exponent < 0 && !arg.depends_on_k() && symbolic(&arg.constant) =>
+            {
+                let (_, primitive) = arg.constant.numer().content_and_primitive();
+                for kind in nonzero_conditions(&primitive) {
+                    push_unique(
+                        &mut out,
+                        kind,
+                        "the simplest form divides by this expression",
+                        problem,
+                        values,
+                    );
+                }
+            }
+            _ => {}
+        }
+    }
+    out.split_off(existing.len())
 }
