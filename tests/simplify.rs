@@ -212,6 +212,10 @@ fn hand_made_rules_with_every_rewrite_agree() {
         "param N integer >= 2\na(k)/a(k-1) = (N-k+1)(N-k+2)/(k(k+1))  for k >= 1",
         "param c > 0\na(k)/a(k-1) = (k+c)/(k+c+5/2)  for k >= 1",
         "a(k)/a(k-1) = (k+1/3)(k+2/3)/(k(k+1))  for k >= 1",
+        "a(k)/a(k-1) = (k-5)/(k+1/2)  for k >= 1",
+        "a(k)/a(k-1) = (3-k)(k+1/2)/k^2  for k >= 1",
+        "param b in (0, 1)\na(k)/a(k-1) = (k - 1 + b)/(k + 1 - b)  for k >= 1",
+        "a(k)/a(k-1) = (k+1/3)(k+2/3)(k+1/5)(k+2/7)(k-1)/((k+1/2)(k+3/4)(k+5)(k+6)(k+7/3))",
     ];
     let mut points = Points(7);
     for rule in rules {
