@@ -22,6 +22,7 @@ pub mod piecewise;
 pub mod ratio;
 pub mod render;
 pub mod session;
+pub mod simplify;
 pub mod solve;
 pub mod syntax;
 pub mod table;

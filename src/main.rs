@@ -31,6 +31,12 @@ enum Command {
         params: Vec<String>,
         #[arg(long, value_enum, default_value_t = SolveFormat::Text)]
         format: SolveFormat,
+        /// Add the derivation: the telescoped product, the Gamma form, every rewrite.
+        #[arg(long)]
+        steps: bool,
+        /// With --format latex: a complete document (pdflatex + amsmath).
+        #[arg(long)]
+        standalone: bool,
     },
     /// Direct products next to the closed form, with their relative difference.
     Table {
@@ -104,40 +110,36 @@ fn run(cli: Cli) -> Result<String, Error> {
             input,
             params,
             format,
+            steps,
+            standalone,
         } => {
+            if standalone && !matches!(format, SolveFormat::Latex) {
+                return Err(Error::Usage(
+                    "--standalone makes a LaTeX document: use it with --format latex".into(),
+                ));
+            }
+            let layout = render::SolveLayout { steps, standalone };
             let input = session::read_input(&input)?;
             let model = session::load_model(&input)?;
             let values = session::parse_values_for(&model.params, &params)?;
-            if model.is_piecewise() {
-                let solved = session::run_solve_model(&input, &model, &values)?;
-                let sum = session::model_sum(&model, &solved)?;
-                return Ok(match format {
-                    SolveFormat::Text => render::piecewise_text(&model, &solved, sum.as_ref()),
-                    SolveFormat::Latex => render::piecewise_latex(&model, &solved),
-                    SolveFormat::Json => {
-                        pretty(&render::piecewise_json(&model, &solved, sum.as_ref()))
-                    }
-                });
-            }
             let solved = session::run_solve_model(&input, &model, &values)?;
-            let (problem, solution) = (&solved.pieces[0].problem, &solved.pieces[0].solution);
-            // The derivation (equation as written → ratio) comes before the solution.
-            let shown = render::has_derivation(&model);
-            Ok(match format {
-                SolveFormat::Text if shown => {
-                    render::derivation_text(&model) + "\n" + &render::solve_text(problem, solution)
-                }
-                SolveFormat::Text => render::solve_text(problem, solution),
-                SolveFormat::Latex if shown => {
-                    render::derivation_latex(&model) + &render::solve_latex(problem, solution)
-                }
-                SolveFormat::Latex => render::solve_latex(problem, solution),
-                SolveFormat::Json => {
-                    let mut json = render::solve_json(problem, solution);
-                    json["derivation"] = render::derivation_json(&model);
-                    pretty(&json)
-                }
-            })
+            let sum = if model.is_piecewise() {
+                session::model_sum(&model, &solved)?
+            } else {
+                None
+            };
+            let format = match format {
+                SolveFormat::Text => render::SolveFormat::Text,
+                SolveFormat::Latex => render::SolveFormat::Latex,
+                SolveFormat::Json => render::SolveFormat::Json,
+            };
+            Ok(render::solve_report(
+                &model,
+                &solved,
+                sum.as_ref(),
+                format,
+                layout,
+            ))
         }
         Command::Table {
             input,

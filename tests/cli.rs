@@ -39,10 +39,14 @@ fn solve_json_has_the_contract_fields() {
     assert_eq!(v["sequence"], "n");
     assert_eq!(v["base_index"], "1");
     assert!(v["ratio"]["text"].is_string() && v["ratio"]["latex"].is_string());
-    assert!(v["closed_form"]["latex"]
+    assert!(v["closed_form_raw"]["latex"]
         .as_str()
         .unwrap()
         .contains("\\Gamma"));
+    assert!(v["closed_form"]["latex"]
+        .as_str()
+        .unwrap()
+        .contains("\\mathrm{B}"));
     assert_eq!(v["support"]["first"], "1");
     assert!(v["support"]["last"].is_null());
     assert!(!v["conditions"].as_array().unwrap().is_empty());

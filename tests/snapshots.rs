@@ -5,7 +5,7 @@ use std::collections::BTreeMap;
 
 use telescope::model::build_model;
 use telescope::piecewise::solve_model;
-use telescope::render;
+use telescope::render::{self, SolveLayout};
 
 fn examples() -> Vec<(String, String)> {
     let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/examples");
@@ -57,6 +57,18 @@ fn every_example_renders_in_every_format() {
         insta::assert_json_snapshot!(
             format!("{name}_json"),
             render::solve_json(problem, solution)
+        );
+        let steps = SolveLayout {
+            steps: true,
+            standalone: false,
+        };
+        insta::assert_snapshot!(
+            format!("{name}_steps_text"),
+            render::solve_text_with(problem, solution, steps)
+        );
+        insta::assert_snapshot!(
+            format!("{name}_steps_latex"),
+            render::solve_latex_with(problem, solution, steps)
         );
     }
 }

@@ -2,10 +2,12 @@
 //! out what `solve`, `table` and the analyses produced.
 
 pub mod check_output;
+pub mod derivation;
 pub mod greek;
 pub mod latex;
 pub mod model_output;
 pub mod node;
+pub mod report;
 pub mod solve_output;
 pub mod table_output;
 pub mod text;
@@ -16,7 +18,10 @@ pub use model_output::{
     derivation_json, derivation_latex, derivation_text, has_derivation, piecewise_json,
     piecewise_latex, piecewise_text,
 };
-pub use solve_output::{solve_json, solve_latex, solve_text};
+pub use report::{solve_report, SolveFormat};
+pub use solve_output::{
+    solve_json, solve_latex, solve_latex_with, solve_text, solve_text_with, SolveLayout,
+};
 pub use table_output::{table_csv, table_json, table_text};
 
 use serde_json::{json, Value};

@@ -96,7 +96,8 @@ pub fn ratfunc(r: &RatFunc) -> Node {
     let (dl, dn, dc) = negative_count(&den);
     let (fnl, fnn, _) = negative_count(&-num.clone());
     let (fdl, fdn, fdc) = negative_count(&-den.clone());
-    if (fnl + fdl, fnn + fdn, fdc) < (nl + dl, nn + dn, dc) {
+    // A constant denominator keeps its sign (−(α + 1), never (α + 1)/(−1)).
+    if den.as_constant().is_none() && (fnl + fdl, fnn + fdn, fdc) < (nl + dl, nn + dn, dc) {
         num = -num;
         den = -den;
     }
@@ -170,7 +171,7 @@ fn with_power(node: Node, exponent: i32) -> Node {
 pub fn ratio(r: &Ratio, index: &str) -> Node {
     let mut top = Vec::new();
     let mut bottom = Vec::new();
-    split_constant(&r.constant, &mut top, &mut bottom);
+    let negative = split_constant(&r.constant, &mut top, &mut bottom);
     for f in &r.factors {
         let node = with_power(linear_factor(f, index), f.exponent);
         if f.exponent > 0 {
@@ -179,26 +180,37 @@ pub fn ratio(r: &Ratio, index: &str) -> Node {
             bottom.push(node);
         }
     }
-    Node::frac(Node::product(top), Node::product(bottom))
+    signed(
+        Node::frac(Node::product(top), Node::product(bottom)),
+        negative,
+    )
 }
 
-fn split_constant(c: &RatFunc, top: &mut Vec<Node>, bottom: &mut Vec<Node>) {
+/// Puts the magnitude of `c` into `top`/`bottom`; returns whether `c` is negative, so that the
+/// caller writes one minus sign in front (`−(k − 1/2)/(2(k + 2))`, not `−1(k − 1/2)/…`).
+fn split_constant(c: &RatFunc, top: &mut Vec<Node>, bottom: &mut Vec<Node>) -> bool {
     if c.is_one() {
-        return;
+        return false;
     }
-    match ratfunc(c) {
+    let (node, negative) = match ratfunc(c) {
+        Node::Neg(inner) => (*inner, true),
+        other => (other, false),
+    };
+    match node {
         Node::Frac(n, d) => {
             top.push(*n);
             bottom.push(*d);
         }
-        Node::Neg(inner) => match *inner {
-            Node::Frac(n, d) => {
-                top.push(Node::Neg(n));
-                bottom.push(*d);
-            }
-            other => top.push(other.negate()),
-        },
         other => top.push(other),
+    }
+    negative
+}
+
+fn signed(node: Node, negative: bool) -> Node {
+    if negative {
+        node.negate()
+    } else {
+        node
     }
 }
 
@@ -256,19 +268,56 @@ pub fn factor(f: &Factor, index: &str) -> (Node, bool) {
 }
 
 /// A product of factors with its coefficient, optionally preceded by extra numerator items.
+///
+/// A fractional coefficient is kept whole (`(7/2)·a(1)·B(k, 7/2)`) unless other factors already
+/// make a denominator, which it then joins (`60/(k(k + 1)(k + 2))`).
+///
+/// The coefficient's numerator comes first, before the `lead` items: `2·w(0)·(λ/μ)^k/(k + 2)!`.
 pub fn product(p: &Product, index: &str, lead: Vec<Node>) -> Node {
-    let mut top = lead;
+    let mut top = Vec::new();
+    let mut lead = lead;
     let mut bottom = Vec::new();
-    split_constant(&p.coefficient, &mut top, &mut bottom);
+    let mut rest_top = Vec::new();
     for f in &p.factors {
         let (node, below) = factor(f, index);
         if below {
             bottom.push(node);
-        } else {
+        } else if !f.depends_on_k() && !f.is_special() {
+            // Constant factors such as (α + 1) read as part of the coefficient.
             top.push(node);
+        } else {
+            rest_top.push(node);
         }
     }
-    Node::frac(Node::product(top), Node::product(bottom))
+    let mut negative = false;
+    if bottom.is_empty() {
+        if !p.coefficient.is_one() {
+            let (node, minus) = match ratfunc(&p.coefficient) {
+                Node::Neg(inner) => (*inner, true),
+                other => (other, false),
+            };
+            negative = minus;
+            top.insert(0, node);
+        }
+    } else {
+        let mut coefficient_bottom = Vec::new();
+        let mut coefficient_top = Vec::new();
+        negative = split_constant(
+            &p.coefficient,
+            &mut coefficient_top,
+            &mut coefficient_bottom,
+        );
+        coefficient_top.append(&mut top);
+        top = coefficient_top;
+        coefficient_bottom.append(&mut bottom);
+        bottom = coefficient_bottom;
+    }
+    top.append(&mut lead);
+    top.append(&mut rest_top);
+    signed(
+        Node::frac(Node::product(top), Node::product(bottom)),
+        negative,
+    )
 }
 
 /// `a(b) · product`, the right-hand side of a closed form.

@@ -4,6 +4,7 @@
 //! rising products, the reflected form for factors written `β − k`); `support` finds where the
 //! sequence ends and which parameter values the result excludes.
 
+pub mod ranges;
 mod support;
 mod telescope;
 
@@ -19,6 +20,7 @@ use crate::closed_form::ClosedForm;
 use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
 use crate::ratio::Ratio;
+use crate::simplify::{simplify, Context, Step};
 
 /// Everything `solve` knows about a rule.
 #[derive(Clone, Debug)]
@@ -29,6 +31,10 @@ pub struct Solution {
     pub ratio: Ratio,
     /// The telescoped Gamma-quotient form.
     pub closed_form: ClosedForm,
+    /// The simplest equal form (see `simplify::measure`).
+    pub simplest: ClosedForm,
+    /// How `simplest` follows from `closed_form`, one rule at a time.
+    pub steps: Vec<Step>,
     pub support: Support,
     pub conditions: Vec<Condition>,
     /// Parameter values the user supplied (used to decide conditions and the support).
@@ -41,13 +47,34 @@ pub fn solve(problem: &Problem, values: &BTreeMap<String, Q>) -> Result<Solution
     let (ratio, sign_flips) =
         telescope::orient_for_poles(&problem.ratio, &problem.first_index, values);
     let support = support::find_support(problem, &ratio, values)?;
-    let conditions = support::conditions(problem, &ratio, values)?;
+    let mut conditions = support::conditions(problem, &ratio, values)?;
     let closed_form = telescope(&problem.sequence, &ratio, &base_index, sign_flips);
+    let context = Context {
+        base_index: base_index.clone(),
+        integer_params: problem
+            .params
+            .iter()
+            .filter(|p| p.integer)
+            .map(|p| p.name.clone())
+            .collect(),
+    };
+    let mut simplified = simplify(&closed_form, &context);
+    let extra = support::form_conditions(problem, &simplified.simplest, &conditions, values);
+    if extra.iter().any(|c| matches!(c.status, Status::Fails(_))) {
+        // The supplied values sit where the simplest form breaks but the rule does not
+        // (e.g. B(k, 0)): keep the telescoped form, which holds there.
+        simplified.simplest = closed_form.clone();
+        simplified.steps.clear();
+    } else {
+        conditions.extend(extra);
+    }
     Ok(Solution {
         sequence: problem.sequence.clone(),
         base_index,
         ratio,
         closed_form,
+        simplest: simplified.simplest,
+        steps: simplified.steps,
         support,
         conditions,
         values: values.clone(),

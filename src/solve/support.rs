@@ -6,10 +6,12 @@ use num_bigint::BigInt;
 use num_traits::Zero;
 
 use crate::algebra::{rational_roots, Poly, RatFunc, Q};
+use crate::closed_form::{ClosedForm, Factor};
 use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
 use crate::ratio::{LinearFactor, Ratio};
 
+use super::ranges::{range_contains, takes_integer_at_least, vanishes_somewhere, Verdict};
 use super::telescope::numeric_shift;
 
 /// The index range on which a(k) is non-zero.
@@ -54,8 +56,13 @@ pub enum ConditionKind {
 pub enum Status {
     /// Not decided from what is known.
     Undecided,
-    /// Holds; the string says what settles it (`rho = 3/10`, `the range 0 < rho < 1`).
+    /// Not decided, and the ranges could not settle it; the string says why (several
+    /// parameters, the range leaves both outcomes possible, an irrational breakpoint).
+    NotDecided(String),
+    /// Holds; the string says what settles it (`rho = 3/10`).
     Holds(String),
+    /// Holds for every value the declared ranges of these parameters allow.
+    SettledByRange(Vec<String>),
     /// Fails; the string says why.
     Fails(String),
 }
@@ -90,7 +97,11 @@ pub fn find_support(
                 }
             }
             None => {
-                if symbolic.is_none() {
+                // A root the declared ranges keep off the integers ≥ the first index never
+                // ends the support: `k + r − 1` with r > 0 is non-zero for every k ≥ 1.
+                let reachable =
+                    takes_integer_at_least(&root, first_index, problem, values) != Verdict::Never;
+                if reachable && symbolic.is_none() {
                     let certain = is_integer_valued(&root, problem);
                     symbolic = Some((&root - &RatFunc::one(), certain));
                 }
@@ -176,6 +187,7 @@ pub fn conditions(
                 &mut out,
                 kind,
                 "the rule's coefficients divide by this expression",
+                problem,
                 values,
             );
         }
@@ -188,6 +200,7 @@ pub fn conditions(
                 &mut out,
                 kind,
                 "otherwise the constant factor of the rule is zero and the sequence stops at the base term",
+                problem,
                 values,
             );
         }
@@ -206,13 +219,14 @@ pub fn conditions(
             &mut out,
             kind,
             "a factor of the rule's denominator would vanish at that k",
+            problem,
             values,
         );
     }
     for condition in &out {
         if let Status::Fails(why) = &condition.status {
             return Err(Diagnostic::new(
-                format!("the parameter values break a condition of the rule: {why}"),
+                format!("a condition of the rule fails: {why}"),
                 problem.rule_span.clone(),
             )
             .with_help("choose other values with --param"));
@@ -225,12 +239,16 @@ fn push_unique(
     out: &mut Vec<Condition>,
     kind: ConditionKind,
     reason: &str,
+    problem: &Problem,
     values: &BTreeMap<String, Q>,
 ) {
     if out.iter().any(|c| c.kind == kind) {
         return;
     }
-    let status = decide(&kind, values);
+    let status = match decide(&kind, values) {
+        Status::Undecided => decide_from_ranges(&kind, problem, values),
+        decided => decided,
+    };
     out.push(Condition {
         kind,
         reason: reason.to_string(),
@@ -297,4 +315,107 @@ fn decide(kind: &ConditionKind, values: &BTreeMap<String, Q>) -> Status {
             Err(_) => Status::Undecided,
         },
     }
+}
+
+/// Settles a condition from the declared parameter ranges where that is exact (see `ranges`).
+fn decide_from_ranges(
+    kind: &ConditionKind,
+    problem: &Problem,
+    values: &BTreeMap<String, Q>,
+) -> Status {
+    let settled = |expr: &RatFunc| {
+        Status::SettledByRange(
+            expr.eval_partial(values)
+                .map(|e| e.variables().into_iter().collect())
+                .unwrap_or_default(),
+        )
+    };
+    match kind {
+        ConditionKind::NotEqual { param, value } => match range_contains(problem, param, value) {
+            Some(false) => Status::SettledByRange(vec![param.clone()]),
+            Some(true) => {
+                Status::NotDecided(format!("{param} = {value} lies inside the declared range"))
+            }
+            None => Status::Undecided,
+        },
+        ConditionKind::NonZero(expr) => match vanishes_somewhere(expr, problem, values) {
+            Verdict::Never => settled(expr),
+            Verdict::Always => Status::Fails("it vanishes on the whole declared range".into()),
+            Verdict::Sometimes => {
+                Status::NotDecided("it vanishes somewhere inside the declared range".into())
+            }
+            Verdict::Open(why) => Status::NotDecided(why),
+        },
+        ConditionKind::NotIntegerAtLeast { expr, min } => {
+            match takes_integer_at_least(expr, min, problem, values) {
+                Verdict::Never => settled(expr),
+                Verdict::Always => Status::Fails(
+                    "for every value the declared range allows, a denominator factor vanishes inside the rule's range"
+                        .into(),
+                ),
+                Verdict::Sometimes => Status::NotDecided(
+                    "the declared range contains values where it fails".into(),
+                ),
+                Verdict::Open(why) => Status::NotDecided(why),
+            }
+        }
+    }
+}
+
+/// What the simplest form needs beyond what the rule itself needs: a Beta function's second
+/// argument and a Gamma of parameters in a numerator must avoid the poles of Γ at 0, −1, −2, …
+/// (DLMF 5.2.1), and a constant divisor must not vanish. Only conditions not already in
+/// `existing` are returned.
+pub fn form_conditions(
+    problem: &Problem,
+    form: &ClosedForm,
+    existing: &[Condition],
+    values: &BTreeMap<String, Q>,
+) -> Vec<Condition> {
+    let mut out: Vec<Condition> = existing.to_vec();
+    let symbolic = |c: &RatFunc| c.as_constant().is_none();
+    for factor in &form.product.factors {
+        match factor {
+            Factor::Beta { b, .. } if !b.depends_on_k() && symbolic(&b.constant) => push_unique(
+                &mut out,
+                ConditionKind::NotIntegerAtLeast {
+                    expr: -b.constant.clone(),
+                    min: BigInt::zero(),
+                },
+                "the Beta function of the simplest form needs its second argument off the poles of Gamma",
+                problem,
+                values,
+            ),
+            Factor::Gamma { arg, exponent }
+                if *exponent > 0 && !arg.depends_on_k() && symbolic(&arg.constant) =>
+            {
+                push_unique(
+                    &mut out,
+                    ConditionKind::NotIntegerAtLeast {
+                        expr: -arg.constant.clone(),
+                        min: BigInt::zero(),
+                    },
+                    "a Gamma function of the simplest form must stay off its poles",
+                    problem,
+                    values,
+                )
+            }
+            Factor::Linear { arg, exponent }
+                if *exponent < 0 && !arg.depends_on_k() && symbolic(&arg.constant) =>
+            {
+                let (_, primitive) = arg.constant.numer().content_and_primitive();
+                for kind in nonzero_conditions(&primitive) {
+                    push_unique(
+                        &mut out,
+                        kind,
+                        "the simplest form divides by this expression",
+                        problem,
+                        values,
+                    );
+                }
+            }
+            _ => {}
+        }
+    }
+    out.split_off(existing.len())
 }

@@ -1,0 +1,72 @@
+//! The whole `solve` output for a model: the derivation (when the rule was derived from an
+//! equation or rates), then the solution — or the piece-by-piece output of a piecewise model.
+//! The CLI and the tests both go through here, so what the tests check is what users see.
+
+use crate::model::Model;
+use crate::piecewise::{ModelSolution, PiecewiseSum};
+
+use super::{
+    derivation, derivation_json, derivation_latex, derivation_text, has_derivation, piecewise_json,
+    piecewise_latex, piecewise_text, solve_json, solve_latex_with, solve_text_with, SolveLayout,
+};
+
+/// The output formats of `solve`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum SolveFormat {
+    Text,
+    Latex,
+    Json,
+}
+
+fn pretty(v: &serde_json::Value) -> String {
+    serde_json::to_string_pretty(v).expect("JSON values always serialise") + "\n"
+}
+
+/// Everything `telescope solve` prints for a solved model.
+pub fn solve_report(
+    model: &Model,
+    solved: &ModelSolution,
+    sum: Option<&PiecewiseSum>,
+    format: SolveFormat,
+    layout: SolveLayout,
+) -> String {
+    let first = &solved.pieces[0].problem;
+    let wrap = |body: String| {
+        if layout.standalone {
+            derivation::standalone(first, &body)
+        } else {
+            body
+        }
+    };
+    if model.is_piecewise() {
+        return match format {
+            SolveFormat::Text => piecewise_text(model, solved, sum),
+            SolveFormat::Latex => wrap(piecewise_latex(model, solved)),
+            SolveFormat::Json => pretty(&piecewise_json(model, solved, sum)),
+        };
+    }
+    let (problem, solution) = (first, &solved.pieces[0].solution);
+    let shown = has_derivation(model);
+    match format {
+        SolveFormat::Text if shown => {
+            derivation_text(model) + "\n" + &solve_text_with(problem, solution, layout)
+        }
+        SolveFormat::Text => solve_text_with(problem, solution, layout),
+        SolveFormat::Latex => {
+            let inner = SolveLayout {
+                standalone: false,
+                ..layout
+            };
+            let mut body = solve_latex_with(problem, solution, inner);
+            if shown {
+                body = derivation_latex(model) + &body;
+            }
+            wrap(body)
+        }
+        SolveFormat::Json => {
+            let mut json = solve_json(problem, solution);
+            json["derivation"] = derivation_json(model);
+            pretty(&json)
+        }
+    }
+}
