@@ -13,6 +13,7 @@
 //! ```
 
 pub mod algebra;
+pub mod analysis;
 pub mod closed_form;
 pub mod diagnostic;
 pub mod model;
