@@ -5,9 +5,10 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand, ValueEnum};
 
 use telescope::algebra::Q;
+use telescope::analysis::{analyse, AnalysisRequest};
 use telescope::render;
 use telescope::session::{self, Error};
-use telescope::table::{build_table, TableRequest};
+use telescope::table::{build_normalized_table, build_table, TableRequest};
 
 #[derive(Parser)]
 #[command(
@@ -31,6 +32,15 @@ enum Command {
         params: Vec<String>,
         #[arg(long, value_enum, default_value_t = SolveFormat::Text)]
         format: SolveFormat,
+        /// Correction terms c₁…c_N of the tail law.
+        #[arg(long, default_value_t = 2)]
+        terms: usize,
+        /// Significant digits of the total, mean, variance and prefactor.
+        #[arg(long, default_value_t = 30)]
+        digits: u32,
+        /// Treat the sequence as a probability distribution: a(b) so that the total is 1.
+        #[arg(long)]
+        normalize: bool,
     },
     /// Direct products next to the closed form, with their relative difference.
     Table {
@@ -50,6 +60,9 @@ enum Command {
         /// Check the closed form on every row, not a log-spaced sample.
         #[arg(long)]
         check_all: bool,
+        /// a(b) chosen so that the total over the support is 1 (instead of --base).
+        #[arg(long, conflicts_with = "base")]
+        normalize: bool,
         #[arg(long, value_enum, default_value_t = TableFormat::Text)]
         format: TableFormat,
     },
@@ -71,6 +84,10 @@ enum TableFormat {
 
 /// Largest `--digits` accepted.
 const MAX_DIGITS: u32 = 10_000;
+/// Largest `--terms` accepted (each term is a Bernoulli polynomial of that degree).
+const MAX_TERMS: usize = 40;
+/// Largest `--digits` for `solve`, whose sums get slower with the digits.
+const MAX_SOLVE_DIGITS: u32 = 2_000;
 
 fn run(cli: Cli) -> Result<String, Error> {
     match cli.command {
@@ -78,15 +95,49 @@ fn run(cli: Cli) -> Result<String, Error> {
             input,
             params,
             format,
+            terms,
+            digits,
+            normalize,
         } => {
+            if digits == 0 || digits > MAX_SOLVE_DIGITS {
+                return Err(Error::Usage(format!(
+                    "--digits {digits}: choose 1 to {MAX_SOLVE_DIGITS}"
+                )));
+            }
+            if terms > MAX_TERMS {
+                return Err(Error::Usage(format!(
+                    "--terms {terms}: choose 0 to {MAX_TERMS}"
+                )));
+            }
             let input = session::read_input(&input)?;
             let problem = session::load_problem(&input)?;
             let values = session::parse_values(&problem, &params)?;
             let solution = session::run_solve(&input, &problem, &values)?;
+            let request = AnalysisRequest {
+                terms,
+                digits,
+                normalize,
+            };
+            let analysis =
+                analyse(&problem, &solution, &request).map_err(|diagnostic| Error::Input {
+                    input: input.clone(),
+                    diagnostic,
+                })?;
             Ok(match format {
-                SolveFormat::Text => render::solve_text(&problem, &solution),
-                SolveFormat::Latex => render::solve_latex(&problem, &solution),
-                SolveFormat::Json => pretty(&render::solve_json(&problem, &solution)),
+                SolveFormat::Text => {
+                    render::solve_text(&problem, &solution) + &render::analysis_text(&analysis)
+                }
+                SolveFormat::Latex => {
+                    render::solve_latex(&problem, &solution) + &render::analysis_latex(&analysis)
+                }
+                SolveFormat::Json => {
+                    let mut v = render::solve_json(&problem, &solution);
+                    if let serde_json::Value::Object(m) = &mut v {
+                        m.insert("digits".into(), digits.to_string().into());
+                        m.extend(render::analysis_json(&analysis));
+                    }
+                    pretty(&v)
+                }
             })
         }
         Command::Table {
@@ -96,6 +147,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             digits,
             base,
             check_all,
+            normalize,
             format,
         } => {
             if digits == 0 || digits > MAX_DIGITS {
@@ -119,11 +171,22 @@ fn run(cli: Cli) -> Result<String, Error> {
                 base_value,
                 check_all,
             };
-            let table =
-                build_table(&problem, &solution, &request).map_err(|diagnostic| Error::Input {
-                    input: input.clone(),
-                    diagnostic,
-                })?;
+            let to_error = |diagnostic| Error::Input {
+                input: input.clone(),
+                diagnostic,
+            };
+            if normalize {
+                let table =
+                    build_normalized_table(&problem, &solution, &request).map_err(to_error)?;
+                return Ok(match format {
+                    TableFormat::Text => render::analysis_output::normalized_table_text(&table),
+                    TableFormat::Csv => render::table_csv(&table.table),
+                    TableFormat::Json => {
+                        pretty(&render::analysis_output::normalized_table_json(&table))
+                    }
+                });
+            }
+            let table = build_table(&problem, &solution, &request).map_err(to_error)?;
             Ok(match format {
                 TableFormat::Text => render::table_text(&table),
                 TableFormat::Csv => render::table_csv(&table),

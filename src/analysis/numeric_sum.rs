@@ -13,11 +13,11 @@ use num_traits::{Signed, ToPrimitive, Zero};
 use rug::ops::Pow;
 use rug::{Float, Rational};
 
-use super::bernoulli::bernoulli_numbers;
+use super::bernoulli::bernoulli_numbers_gmp;
 use super::hurwitz::hurwitz_zeta;
 use super::hypergeometric::RisingForm;
-use super::tail::{exp_series, log_coefficients, tail_law};
-use crate::algebra::{RatFunc, Q};
+use super::tail::{numeric_corrections, tail_law};
+use crate::algebra::Q;
 use crate::numeric::{bits_for_digits, to_rug_integer, to_rug_rational, GUARD_BITS};
 
 /// A rule with every parameter substituted.
@@ -380,13 +380,13 @@ fn euler_maclaurin(
         .prefactor_term
         .to_float(&Default::default(), prec + 32)
         .ok_or_else(|| SumFailure::Unsupported("the prefactor has a pole".into()))?;
-    let max_terms = (digits as usize + 40).min(400);
-    let deltas = log_coefficients(&rule.form, max_terms);
-    let corrections: Vec<Q> = exp_series(&deltas)
-        .iter()
-        .map(|c: &RatFunc| c.as_constant().unwrap_or_else(Q::zero))
-        .collect();
-    let bernoulli = bernoulli_numbers(2 * max_terms + 200);
+    // Terms shrink like n/(2πK) with K ≈ 4·digits: about digits/2.5 of them reach the target.
+    let max_terms = (digits as usize / 2 + 24).min(600);
+    let corrections = numeric_corrections(&rule.form, &Default::default(), max_terms)
+        .ok_or_else(|| SumFailure::Unsupported("symbolic shifts".into()))?;
+    // x^(−s) with s up to max_terms: each Euler–Maclaurin term gains ≥ (2πK/(s+2i))², so
+    // this many Bernoulli numbers always suffice (common practice sizing).
+    let bernoulli = bernoulli_numbers_gmp(2 * max_terms + 80);
     for _attempt in 0..6 {
         let first_tail = &rule.base_index + BigInt::from(head_len);
         let mut head = Head::new(&rule.base_index, prec);
@@ -451,7 +451,7 @@ fn tail_sum(
     big_k: u64,
     c_value: &Float,
     prec: u32,
-    bernoulli: &[Q],
+    bernoulli: &[Rational],
     target: &Float,
     head_sum: &Float,
 ) -> Option<(Float, Float, usize)> {

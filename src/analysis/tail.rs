@@ -14,7 +14,7 @@ use std::collections::BTreeMap;
 use num_bigint::BigInt;
 use num_traits::One;
 
-use super::bernoulli::{bernoulli_numbers, bernoulli_polynomial};
+use super::bernoulli::{bernoulli_numbers, bernoulli_polynomial, bernoulli_polynomial_at};
 use super::hypergeometric::RisingForm;
 use super::symbolic::{Atom, RatKey, Term};
 use crate::algebra::{RatFunc, Q};
@@ -157,18 +157,40 @@ pub fn term_to_product(t: &Term) -> Product {
     }
 }
 
-/// Numeric pieces of the law for numeric parameters: the corrections as exact rationals.
+/// The corrections c₀ = 1, c₁ … c_count as exact rationals when every parameter has a value:
+/// the same recurrences as [`log_coefficients`] and [`exp_series`] in plain rationals, fast
+/// enough for the few dozen terms an Euler–Maclaurin tail needs.
 pub fn numeric_corrections(
     form: &RisingForm,
     values: &BTreeMap<String, Q>,
     count: usize,
 ) -> Option<Vec<Q>> {
     let form = form.substituted(values);
-    let deltas = log_coefficients(&form, count);
-    exp_series(&deltas)
+    let shifts: Vec<(Q, i32)> = form
+        .factors
         .iter()
-        .map(|c| c.as_constant())
-        .collect()
+        .map(|(alpha, e)| Some((alpha.as_constant()? + Q::one(), *e)))
+        .collect::<Option<_>>()?;
+    let numbers = bernoulli_numbers(count + 1);
+    let deltas: Vec<Q> = (1..=count)
+        .map(|m| {
+            let mut sum = Q::from_integer(BigInt::from(0));
+            for (h, e) in &shifts {
+                sum += bernoulli_polynomial_at(m + 1, h, &numbers) * Q::from_integer(BigInt::from(*e));
+            }
+            let sign = if m % 2 == 1 { 1 } else { -1 };
+            sum * Q::new(BigInt::from(sign), BigInt::from((m * (m + 1)) as u64))
+        })
+        .collect();
+    let mut c = vec![Q::one()];
+    for n in 1..=count {
+        let mut sum = Q::from_integer(BigInt::from(0));
+        for m in 1..=n {
+            sum += &deltas[m - 1] * &c[n - m] * Q::from_integer(BigInt::from(m as u64));
+        }
+        c.push(sum / Q::from_integer(BigInt::from(n as u64)));
+    }
+    Some(c)
 }
 
 #[cfg(test)]
