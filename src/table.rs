@@ -389,5 +389,7 @@ pub fn build_normalized_table(
 }
 
 fn to_bigint(n: &rug::Integer) -> BigInt {
-    n.to_string().parse().expect("an integer prints as an integer")
+    n.to_string()
+        .parse()
+        .expect("an integer prints as an integer")
 }

@@ -66,12 +66,20 @@ fn settled_by(expr: &RatFunc, values: &BTreeMap<String, Q>) -> String {
         .join(", ")
 }
 
+fn failure(expr: &RatFunc, value: &Q, values: &BTreeMap<String, Q>) -> String {
+    if expr.variables().is_empty() {
+        format!("it equals {value}")
+    } else {
+        format!("it is {value} with {}", settled_by(expr, values))
+    }
+}
+
 pub fn decide(ineq: &Inequality, values: &BTreeMap<String, Q>, params: &[Param]) -> Verdict {
     match ineq {
         Inequality::Never(why) => Verdict::Fails(why.clone()),
         Inequality::Positive(expr) => match expr.eval(values) {
             Ok(v) if v.is_positive() => Verdict::Holds(settled_by(expr, values)),
-            Ok(v) => Verdict::Fails(format!("it is {v} with {}", settled_by(expr, values))),
+            Ok(v) => Verdict::Fails(failure(expr, &v, values)),
             Err(_) => match sign_from_ranges(expr, params) {
                 Some(true) => Verdict::Holds("the declared ranges".into()),
                 Some(false) => Verdict::Fails("the declared ranges make it ≤ 0".into()),
@@ -82,7 +90,7 @@ pub fn decide(ineq: &Inequality, values: &BTreeMap<String, Q>, params: &[Param])
             Ok(v) if v.abs() < Q::from_integer(1.into()) => {
                 Verdict::Holds(settled_by(expr, values))
             }
-            Ok(v) => Verdict::Fails(format!("it is {v} with {}", settled_by(expr, values))),
+            Ok(v) => Verdict::Fails(failure(expr, &v, values)),
             Err(_) => {
                 let one = RatFunc::one();
                 let below = sign_from_ranges(&(&one - expr), params);
@@ -149,15 +157,31 @@ fn affine_range(p: &crate::algebra::Poly, params: &[Param]) -> Option<(Option<En
     for (monomial, c) in p.terms() {
         let vars: Vec<(&str, u32)> = monomial.factors().collect();
         if vars.is_empty() {
-            lo = lo.map(|e| End { value: e.value + c, attained: e.attained });
-            hi = hi.map(|e| End { value: e.value + c, attained: e.attained });
+            lo = lo.map(|e| End {
+                value: e.value + c,
+                attained: e.attained,
+            });
+            hi = hi.map(|e| End {
+                value: e.value + c,
+                attained: e.attained,
+            });
             continue;
         }
         let name = vars[0].0;
         let param = params.iter().find(|p| p.name == name)?;
-        let lower = param.lower.clone().map(|(v, closed)| End { value: v, attained: closed });
-        let upper = param.upper.clone().map(|(v, closed)| End { value: v, attained: closed });
-        let (for_lo, for_hi) = if c.is_positive() { (lower, upper) } else { (upper, lower) };
+        let lower = param.lower.clone().map(|(v, closed)| End {
+            value: v,
+            attained: closed,
+        });
+        let upper = param.upper.clone().map(|(v, closed)| End {
+            value: v,
+            attained: closed,
+        });
+        let (for_lo, for_hi) = if c.is_positive() {
+            (lower, upper)
+        } else {
+            (upper, lower)
+        };
         let add = |acc: Option<End>, end: Option<End>| -> Option<End> {
             let (a, e) = (acc?, end?);
             Some(End {

@@ -42,18 +42,23 @@ pub fn hurwitz_zeta(
         let b = Float::with_val(prec, &bernoulli[2 * i]);
         let term = Float::with_val(prec, &running * &b);
         // next running: multiply by (s+2i−1)(s+2i)/((2i+1)(2i+2) N²)
-        let mut next = Float::with_val(prec, &running * (Float::with_val(prec, &s_f + (2 * i - 1) as u32)));
+        let mut next = Float::with_val(
+            prec,
+            &running * (Float::with_val(prec, &s_f + (2 * i - 1) as u32)),
+        );
         next *= Float::with_val(prec, &s_f + (2 * i) as u32);
         next /= ((2 * i + 1) * (2 * i + 2)) as u32;
         next /= &n_sq;
         let b_next = Float::with_val(prec, &bernoulli[(2 * i + 2).min(bernoulli.len() - 1)]);
         let next_term = Float::with_val(prec, &next * &b_next).abs();
         value += &term;
-        let small = Float::with_val(prec, &next_term * 2u32) <= Float::with_val(prec, &value * target);
+        let small =
+            Float::with_val(prec, &next_term * 2u32) <= Float::with_val(prec, &value * target);
         if small {
             // Remainder ≤ |first omitted term|, doubled; plus a few ulps per operation.
             let ulps = Float::with_val(64, Float::i_exp(1, 8 - prec as i32));
-            let error = Float::with_val(64, &next_term * 2u32) + Float::with_val(64, &value * &ulps) * (4 * i + 8) as u32;
+            let error = Float::with_val(64, &next_term * 2u32)
+                + Float::with_val(64, &value * &ulps) * (4 * i + 8) as u32;
             return Some((value, error));
         }
         if next_term >= Float::with_val(prec, term.abs_ref()) {

@@ -26,7 +26,10 @@ pub mod tail;
 pub use conditions::{Inequality, Requirement, Verdict};
 pub use hypergeometric::{HyperSeries, RisingForm};
 pub use numeric_sum::{moment_sums, Bounded, MomentSums, NumericRule, SumFailure, SumMethod};
-pub use report::{analyse, normalizing_base_value, Analysis, AnalysisRequest, Finiteness, Moment, Normalization, NumberReport, TailCheck, TailNumbers, TailReport};
+pub use report::{
+    analyse, normalizing_base_value, Analysis, AnalysisRequest, Finiteness, Moment, Normalization,
+    NumberReport, TailCheck, TailNumbers, TailReport,
+};
 pub use sums::{closed_sum, Theorem};
 pub use symbolic::{Atom, Expr, Term};
-pub use tail::{tail_law, Tail};
+pub use tail::{numeric_corrections, tail_law, Tail};

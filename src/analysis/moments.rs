@@ -26,7 +26,10 @@ fn constant(b: &BigInt) -> RatFunc {
 }
 
 /// `(E[n], E[n(n−1)])` by factorial moments, divided by the total `total`.
-fn factorial_route(series: &HyperSeries, total_inv: &Term) -> (Option<(Term, Theorem)>, Option<(Term, Theorem)>) {
+fn factorial_route(
+    series: &HyperSeries,
+    total_inv: &Term,
+) -> (Option<(Term, Theorem)>, Option<(Term, Theorem)>) {
     let piece = |r: u32| -> Option<(Term, Theorem)> {
         let (factor, shifted) = series.factorial_moment(r);
         if factor.is_zero() {
@@ -39,7 +42,10 @@ fn factorial_route(series: &HyperSeries, total_inv: &Term) -> (Option<(Term, The
 }
 
 /// `(E[n+1], E[(n+1)²])` by the weights `(n+1)^r`.
-fn weight_route(series: &HyperSeries, total_inv: &Term) -> (Option<(Term, Theorem)>, Option<(Term, Theorem)>) {
+fn weight_route(
+    series: &HyperSeries,
+    total_inv: &Term,
+) -> (Option<(Term, Theorem)>, Option<(Term, Theorem)>) {
     let piece = |r: u32| -> Option<(Term, Theorem)> {
         let (sum, theorem) = closed_sum(&series.weighted_by_n_plus_one(r))?;
         Some((sum.mul(total_inv), theorem))
@@ -77,8 +83,7 @@ pub fn closed_moments(series: &HyperSeries, total: &Term, base: &BigInt) -> Clos
         if let Some((e1, th1)) = &first {
             if mean.is_none() {
                 // E[k] = (b − 1) + E[n+1]
-                let m = Expr::from_term(e1.clone())
-                    .plus_term(Term::rational(&b - &RatFunc::one()));
+                let m = Expr::from_term(e1.clone()).plus_term(Term::rational(&b - &RatFunc::one()));
                 mean = Some((simplify(m), vec![*th1]));
             }
             if let (None, Some((e2, th2))) = (&variance, &second) {
@@ -153,7 +158,10 @@ mod tests {
     fn binomial_and_logarithmic_moments() {
         // binomial n = 12, p = 3/10: mean np = 18/5, variance np(1−p) = 63/25 (scipy.stats.binom)
         let m = moments("a(k)/a(k-1) = (12-k+1)*(3/10)/(k*(1-3/10)) for k >= 1");
-        assert_eq!(m.mean.unwrap().0.as_rational(), Some(RatFunc::constant(q(18, 5))));
+        assert_eq!(
+            m.mean.unwrap().0.as_rational(),
+            Some(RatFunc::constant(q(18, 5)))
+        );
         assert_eq!(
             m.variance.unwrap().0.as_rational(),
             Some(RatFunc::constant(q(63, 25)))

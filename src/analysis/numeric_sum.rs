@@ -103,11 +103,10 @@ const MAX_TERMS: u64 = 5_000_000;
 /// The three sums to `digits` significant digits (relative error ≤ 10^(−digits−2) for every
 /// convergent one).
 pub fn moment_sums(rule: &NumericRule, digits: u32) -> Result<MomentSums, SumFailure> {
-    let constant = rule
-        .form
-        .constant
-        .as_constant()
-        .ok_or_else(|| SumFailure::Unsupported("the rule still has symbolic parameters".into()))?;
+    let constant =
+        rule.form.constant.as_constant().ok_or_else(|| {
+            SumFailure::Unsupported("the rule still has symbolic parameters".into())
+        })?;
     let shifts: Vec<(Q, i32)> = rule
         .form
         .factors
@@ -404,7 +403,17 @@ fn euler_maclaurin(
             if &theta + &jq >= minus_one {
                 continue; // Σ k^j a(k) diverges
             }
-            match tail_sum(&corrections, &theta, &jq, big_k, &c_value, prec, &bernoulli, &target, &head.sums[j]) {
+            match tail_sum(
+                &corrections,
+                &theta,
+                &jq,
+                big_k,
+                &c_value,
+                prec,
+                &bernoulli,
+                &target,
+                &head.sums[j],
+            ) {
                 Some((value, error, terms)) => {
                     used_terms = used_terms.max(terms);
                     let total = Float::with_val(prec, &head.sums[j] + &value);
@@ -483,7 +492,11 @@ fn tail_sum(
                 return None;
             }
         }
-        previous = if c.is_zero() { previous } else { Some(magnitude) };
+        previous = if c.is_zero() {
+            previous
+        } else {
+            Some(magnitude)
+        };
         total += &term;
         let rel = Float::with_val(64, &c_f * c_value).abs() * zeta_err;
         error += rel;

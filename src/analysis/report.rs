@@ -14,10 +14,10 @@ use super::hypergeometric::{HyperSeries, RisingForm};
 use super::moments::closed_moments;
 use super::numeric_sum::{moment_sums, Bounded, MomentSums, NumericRule, SumFailure};
 use super::sums::{closed_sum, Theorem};
-use super::symbolic::Expr;
-use super::tail::{numeric_corrections, tail_law, term_to_product, Tail};
+use super::symbolic::{Expr, Term};
+use super::tail::{numeric_corrections, tail_law, Tail};
 use crate::algebra::{RatFunc, Q};
-use crate::closed_form::{ClosedForm, Product};
+use crate::closed_form::ClosedForm;
 use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
 use crate::numeric::{
@@ -79,6 +79,8 @@ pub struct TailCheck {
 pub struct TailNumbers {
     pub rate: String,
     pub power: String,
+    /// γ = −θ when the law is a pure power (r = 1, no factorial part).
+    pub tail_exponent: Option<String>,
     pub prefactor: String,
     pub corrections: Vec<String>,
     pub check: Option<TailCheck>,
@@ -87,8 +89,9 @@ pub struct TailNumbers {
 #[derive(Clone, Debug)]
 pub struct TailReport {
     pub law: Tail,
-    /// The prefactor with a(b) chosen by `--normalize` (C divided by the total).
-    pub normalized_prefactor: Option<Product>,
+    /// The prefactor with a(b) chosen by `--normalize` (C divided by the total, which may
+    /// bring exp or ln factors).
+    pub normalized_prefactor: Option<Term>,
     /// The law holds only when the support is infinite (its end depends on the parameters).
     pub conditional: bool,
     pub numbers: Option<TailNumbers>,
@@ -142,23 +145,27 @@ const PURPOSES: [&str; 3] = [
 /// When `Σ k^j a(k)` converges, from the tail law: factorial decay always, factorial growth
 /// never, geometric when |r| < 1, and for r = 1 when θ + j < −1 (comparison with Σ k^s,
 /// common practice); r = −1 needs θ + j < 0 (alternating series test).
-fn convergence(tail: &Tail, j: i64) -> Inequality {
+/// `None` when it always converges.
+fn convergence(tail: &Tail, j: i64) -> Option<Inequality> {
     let d = tail.factorial_power;
     if d > 0 {
-        return Inequality::Never(format!(
+        return Some(Inequality::Never(format!(
             "R(k) grows like k^{d}: the terms grow factorially"
-        ));
+        )));
     }
     if d < 0 {
-        return Inequality::Positive(RatFunc::one());
+        return None;
     }
     let shifted = &tail.power + &RatFunc::from_integer(j);
     match tail.rate.as_constant() {
-        Some(r) if r.is_one() => Inequality::Positive(-(&shifted + &RatFunc::one())),
-        Some(r) if r == -Q::one() => Inequality::Positive(-shifted),
-        Some(r) if r.abs() < Q::one() => Inequality::Positive(RatFunc::one()),
-        Some(r) => Inequality::Never(format!("|r| = {} > 1: the terms grow geometrically", r.abs())),
-        None => Inequality::AbsBelowOne(tail.rate.clone()),
+        Some(r) if r.is_one() => Some(Inequality::Positive(-(&shifted + &RatFunc::one()))),
+        Some(r) if r == -Q::one() => Some(Inequality::Positive(-shifted)),
+        Some(r) if r.abs() < Q::one() => None,
+        Some(r) => Some(Inequality::Never(format!(
+            "|r| = {} > 1: the terms grow geometrically",
+            r.abs()
+        ))),
+        None => Some(Inequality::AbsBelowOne(tail.rate.clone())),
     }
 }
 
@@ -200,15 +207,12 @@ pub fn analyse(
     let requirements: Vec<Vec<Requirement>> = (0..3)
         .map(|j| {
             if finite_support {
-                Vec::new()
-            } else {
-                vec![Requirement::new(
-                    convergence(&law, j as i64),
-                    PURPOSES[j],
-                    values,
-                    &problem.params,
-                )]
+                return Vec::new();
             }
+            convergence(&law, j as i64)
+                .map(|i| Requirement::new(i, PURPOSES[j], values, &problem.params))
+                .into_iter()
+                .collect()
         })
         .collect();
     let total_finiteness = finiteness(&requirements[0]);
@@ -257,7 +261,7 @@ pub fn analyse(
     if request.normalize {
         let inverse = total_term.as_ref().and_then(|t| t.inv());
         if let (Some(t), Some(inv)) = (&mut tail, &inverse) {
-            t.normalized_prefactor = Some(term_to_product(&t.law.prefactor_term.mul(inv)));
+            t.normalized_prefactor = Some(t.law.prefactor_term.mul(inv));
         }
         normalization.base_value = Some((inverse.map(Expr::from_term), None));
     }
@@ -265,7 +269,14 @@ pub fn analyse(
         let numbers = Numbers::compute(&form, solution, request, &normalization, &mean, &variance);
         numbers.apply(&mut normalization, &mut mean, &mut variance, request.digits);
         if let Some(t) = &mut tail {
-            t.numbers = tail_numbers(&form, problem, solution, request, &t.law, numbers.total.as_ref());
+            t.numbers = tail_numbers(
+                &form,
+                problem,
+                solution,
+                request,
+                &t.law,
+                numbers.total.as_ref(),
+            );
         }
     }
     Ok(Analysis {
@@ -333,10 +344,18 @@ fn derived(sums: &MomentSums) -> (Option<Bounded>, Option<Bounded>) {
         }
         let value = Float::with_val(prec, &s1.value / &s0.value);
         let denom = Float::with_val(64, s0.value.abs_ref()) - &s0.error;
-        let error = (Float::with_val(64, &s1.error) + Float::with_val(64, value.abs_ref()) * &s0.error) / denom;
+        let error = (Float::with_val(64, &s1.error)
+            + Float::with_val(64, value.abs_ref()) * &s0.error)
+            / denom;
         // plus the division's rounding
-        let error = error + Float::with_val(64, value.abs_ref()) * Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
-        Bounded { value, error, exact: None }
+        let error = error
+            + Float::with_val(64, value.abs_ref())
+                * Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
+        Bounded {
+            value,
+            error,
+            exact: None,
+        }
     });
     let variance = match (s2, &mean) {
         (Some(s2), Some(m)) => {
@@ -347,13 +366,20 @@ fn derived(sums: &MomentSums) -> (Option<Bounded>, Option<Bounded>) {
             } else {
                 let e2 = Float::with_val(prec, &s2.value / &s0.value);
                 let denom = Float::with_val(64, s0.value.abs_ref()) - &s0.error;
-                let e2_err = (Float::with_val(64, &s2.error) + Float::with_val(64, e2.abs_ref()) * &s0.error) / denom;
-                let value = Float::with_val(prec, &e2 - Float::with_val(prec, m.value.square_ref()));
+                let e2_err = (Float::with_val(64, &s2.error)
+                    + Float::with_val(64, e2.abs_ref()) * &s0.error)
+                    / denom;
+                let value =
+                    Float::with_val(prec, &e2 - Float::with_val(prec, m.value.square_ref()));
                 let ulp = Float::with_val(64, Float::i_exp(1, 2 - prec as i32));
                 let error = e2_err
                     + (Float::with_val(64, m.value.abs_ref()) * 2u32 + &m.error) * &m.error
                     + Float::with_val(64, e2.abs_ref()) * &ulp * 2u32;
-                Some(Bounded { value, error, exact: None })
+                Some(Bounded {
+                    value,
+                    error,
+                    exact: None,
+                })
             }
         }
         _ => None,
@@ -424,7 +450,9 @@ impl Numbers {
                 Ok(sums) => {
                     let (m, v) = derived(&sums);
                     let total = sums.sums[0].clone();
-                    let ok = good_enough(&total, digits) && good_enough(&m, digits) && good_enough(&v, digits);
+                    let ok = good_enough(&total, digits)
+                        && good_enough(&m, digits)
+                        && good_enough(&v, digits);
                     out.sums_method = Some(sums.method.describe());
                     out.total = total;
                     out.mean = m;
@@ -461,9 +489,27 @@ impl Numbers {
             .closed_form
             .as_ref()
             .map(|(_, th)| format!("closed form by {}", th.name()));
-        normalization.value = report(self.closed_total.as_ref(), self.total.as_ref(), &method, theorem, digits);
-        mean.value = report(self.closed_mean.as_ref(), self.mean.as_ref(), &method, None, digits);
-        variance.value = report(self.closed_variance.as_ref(), self.variance.as_ref(), &method, None, digits);
+        normalization.value = report(
+            self.closed_total.as_ref(),
+            self.total.as_ref(),
+            &method,
+            theorem,
+            digits,
+        );
+        mean.value = report(
+            self.closed_mean.as_ref(),
+            self.mean.as_ref(),
+            &method,
+            None,
+            digits,
+        );
+        variance.value = report(
+            self.closed_variance.as_ref(),
+            self.variance.as_ref(),
+            &method,
+            None,
+            digits,
+        );
         if let Some(total) = self.closed_total.as_ref().or(self.total.as_ref()) {
             if let Some((expr, _)) = &normalization.base_value {
                 let prec = total.value.prec();
@@ -472,13 +518,24 @@ impl Numbers {
                     _ => {
                         let value = Float::with_val(prec, total.value.recip_ref());
                         let denom = Float::with_val(64, total.value.abs_ref()) - &total.error;
-                        let error = Float::with_val(64, &total.error) / Float::with_val(64, denom.square_ref())
-                            + Float::with_val(64, value.abs_ref()) * Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
-                        Bounded { value, error, exact: None }
+                        let error = Float::with_val(64, &total.error)
+                            / Float::with_val(64, denom.square_ref())
+                            + Float::with_val(64, value.abs_ref())
+                                * Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
+                        Bounded {
+                            value,
+                            error,
+                            exact: None,
+                        }
                     }
                 };
-                let method = if expr.is_some() { "1 / closed form" } else { "1 / numeric total" };
-                normalization.base_value = Some((expr.clone(), Some(number(&inv, method, None, digits))));
+                let method = if expr.is_some() {
+                    "1 / closed form"
+                } else {
+                    "1 / numeric total"
+                };
+                normalization.base_value =
+                    Some((expr.clone(), Some(number(&inv, method, None, digits))));
             }
         }
     }
@@ -488,14 +545,22 @@ fn number(b: &Bounded, method: &str, check: Option<String>, digits: u32) -> Numb
     let (value, exact) = match &b.exact {
         Some(q) => (
             decimal::rational_to_decimal(q, digits),
-            Some(if *q.denom() == 1 { q.numer().to_string() } else { q.to_string() }),
+            Some(if *q.denom() == 1 {
+                q.numer().to_string()
+            } else {
+                q.to_string()
+            }),
         ),
         None => (decimal::float_to_decimal(&b.value, digits), None),
     };
     NumberReport {
         value,
         exact,
-        error_bound: if b.exact.is_some() { "0".into() } else { decimal::short(&b.error) },
+        error_bound: if b.exact.is_some() {
+            "0".into()
+        } else {
+            decimal::short(&b.error)
+        },
         method: method.to_string(),
         check,
     }
@@ -548,7 +613,14 @@ fn tail_numbers(
         base_index: BigInt::zero(),
         product: law.prefactor.clone(),
     };
-    let c = evaluate_closed_form(&prefactor_form, &BigInt::zero(), values, &Rational::from(1), digits + 5).ok()?;
+    let c = evaluate_closed_form(
+        &prefactor_form,
+        &BigInt::zero(),
+        values,
+        &Rational::from(1),
+        digits + 5,
+    )
+    .ok()?;
     let c_shown = match (request.normalize, total) {
         (true, Some(t)) => {
             let prec = c.ln_abs.prec().max(t.value.prec());
@@ -557,10 +629,20 @@ fn tail_numbers(
         }
         _ => c.clone(),
     };
-    let check = tail_check(solution, law, &c, &rate, &power, &corrections, request.terms);
+    let check = tail_check(
+        solution,
+        law,
+        &c,
+        &rate,
+        &power,
+        &corrections,
+        request.terms,
+    );
+    let pure_power = law.factorial_power == 0 && rate == Q::one();
     Some(TailNumbers {
         rate: rate.to_string(),
         power: power.to_string(),
+        tail_exponent: pure_power.then(|| (-power.clone()).to_string()),
         prefactor: c_shown.to_decimal(digits),
         corrections: corrections[1..=request.terms.min(corrections.len() - 1)]
             .iter()
@@ -582,7 +664,14 @@ fn tail_check(
     terms: usize,
 ) -> Option<TailCheck> {
     let k = &solution.base_index + BigInt::from(1_000_000u32);
-    let direct = evaluate_closed_form(&solution.closed_form, &k, &solution.values, &Rational::from(1), 40).ok()?;
+    let direct = evaluate_closed_form(
+        &solution.closed_form,
+        &k,
+        &solution.values,
+        &Rational::from(1),
+        40,
+    )
+    .ok()?;
     let prec = direct.ln_abs.prec().max(c.ln_abs.prec()) + 64;
     let kf = Float::with_val(prec, crate::numeric::to_rug_integer(&k));
     let ln_k = Float::with_val(prec, kf.ln_ref());
@@ -637,7 +726,8 @@ pub fn normalizing_base_value(
     let analysis = analyse(problem, solution, &request)?;
     let fail = |why: String| Diagnostic::new(why, problem.rule_span.clone());
     if let Finiteness::Infinite(why) = &analysis.normalization.finiteness {
-        return Err(fail(format!("--normalize: the total diverges ({why})")).with_help("only a sequence with a finite total can be normalised"));
+        return Err(fail(format!("--normalize: the total diverges ({why})"))
+            .with_help("only a sequence with a finite total can be normalised"));
     }
     let values = &solution.values;
     let closed = analysis
@@ -649,13 +739,24 @@ pub fn normalizing_base_value(
         Some(t) => t,
         None => {
             let form = RisingForm::from_ratio(&problem.ratio);
-            let numbers = Numbers::compute(&form, solution, &request, &analysis.normalization, &analysis.mean, &analysis.variance);
+            let numbers = Numbers::compute(
+                &form,
+                solution,
+                &request,
+                &analysis.normalization,
+                &analysis.mean,
+                &analysis.variance,
+            );
             match (numbers.total, numbers.failure) {
                 (Some(t), _) => t,
                 (None, Some(SumFailure::Divergent(why) | SumFailure::Unsupported(why))) => {
-                    return Err(fail(format!("--normalize: the total cannot be computed: {why}")))
+                    return Err(fail(format!(
+                        "--normalize: the total cannot be computed: {why}"
+                    )))
                 }
-                (None, None) => return Err(fail("--normalize: the total cannot be computed".into())),
+                (None, None) => {
+                    return Err(fail("--normalize: the total cannot be computed".into()))
+                }
             }
         }
     };
@@ -665,9 +766,14 @@ pub fn normalizing_base_value(
         _ => {
             let value = Float::with_val(prec, total.value.recip_ref());
             // relative error of 1/S equals that of S to first order, plus one rounding
-            let rel = total.relative_error() * 1.01f64 + Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
+            let rel = total.relative_error() * 1.01f64
+                + Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
             let error = Float::with_val(64, value.abs_ref()) * rel;
-            Bounded { value, error, exact: None }
+            Bounded {
+                value,
+                error,
+                exact: None,
+            }
         }
     };
     let method = if analysis.normalization.closed_form.is_some() {

@@ -48,10 +48,7 @@ pub fn closed_sum(series: &HyperSeries) -> Option<(Term, Theorem)> {
         ([], []) => Some((Term::exp(z.clone()), Theorem::ExponentialSeries)),
         ([a], []) => {
             // (1 − z)^(−a)
-            Some((
-                Term::power(&one - z, -a.clone()),
-                Theorem::BinomialTheorem,
-            ))
+            Some((Term::power(&one - z, -a.clone()), Theorem::BinomialTheorem))
         }
         ([a, b], [c]) if z.is_one() => {
             // Γ(c)Γ(c−a−b)/(Γ(c−a)Γ(c−b)); for a terminating series it is the
@@ -69,8 +66,7 @@ pub fn closed_sum(series: &HyperSeries) -> Option<(Term, Theorem)> {
         }
         ([a, b], [c]) if a.is_one() && b.is_one() && *c == RatFunc::from_integer(2) => {
             // −ln(1−z)/z
-            let value = Term::log(&one - z)
-                .scale(&-z.inv()?);
+            let value = Term::log(&one - z).scale(&-z.inv()?);
             Some((value, Theorem::LogarithmSeries))
         }
         _ => None,
@@ -121,9 +117,6 @@ mod tests {
         // (1−p)^(−12) for n = 12, p = 3/10 (scipy.stats.binom normalisation)
         let (t, th) = sum_of("a(k)/a(k-1) = (12-k+1)*(3/10)/(k*(1-3/10)) for k >= 1");
         assert_eq!(th, Theorem::BinomialTheorem);
-        assert_eq!(
-            t.as_rational(),
-            Some(&RatFunc::constant(q(7, 10).pow(-12)))
-        );
+        assert_eq!(t.as_rational(), Some(&RatFunc::constant(q(7, 10).pow(-12))));
     }
 }

@@ -76,10 +76,13 @@ impl Term {
     pub fn power(base: RatFunc, exponent: RatFunc) -> Term {
         Term {
             coefficient: RatFunc::one(),
-            atoms: vec![(Atom::Power {
-                base: RatKey(base),
-                exponent: RatKey(exponent),
-            }, 1)],
+            atoms: vec![(
+                Atom::Power {
+                    base: RatKey(base),
+                    exponent: RatKey(exponent),
+                },
+                1,
+            )],
         }
         .normalized()
     }
@@ -155,7 +158,9 @@ impl Term {
             }
             match atom {
                 Atom::Gamma(RatKey(x)) => gammas.push((x, e)),
-                Atom::Exp(RatKey(x)) => exp_sum = &exp_sum + &(&x * &RatFunc::from_integer(e as i64)),
+                Atom::Exp(RatKey(x)) => {
+                    exp_sum = &exp_sum + &(&x * &RatFunc::from_integer(e as i64))
+                }
                 Atom::Power { base, exponent } => {
                     let exponent = &exponent.0 * &RatFunc::from_integer(e as i64);
                     match powers.iter_mut().find(|(b, _)| *b == base.0) {
@@ -260,7 +265,10 @@ impl Term {
 
 /// Groups Γ(x) whose arguments differ by integers; each group becomes one Gamma value times
 /// rational factors. Returns (argument, exponent, is_sqrt_pi) for what is left.
-fn fold_gammas(gammas: Vec<(RatFunc, i32)>, coefficient: &mut RatFunc) -> Vec<(RatFunc, i32, bool)> {
+fn fold_gammas(
+    gammas: Vec<(RatFunc, i32)>,
+    coefficient: &mut RatFunc,
+) -> Vec<(RatFunc, i32, bool)> {
     // Each group: a representative and its members as (integer offset, exponent).
     let mut groups: Vec<(RatFunc, Vec<(i64, i32)>)> = Vec::new();
     for (x, e) in gammas {

@@ -115,11 +115,7 @@ pub fn tail_law(form: &RisingForm, base_index: &BigInt, terms: usize) -> Tail {
         .constant
         .pow(i32::try_from(exponent).unwrap_or(0))
         .unwrap_or_else(RatFunc::one);
-    let prefactor_term = Term {
-        coefficient,
-        atoms,
-    }
-    .normalized();
+    let prefactor_term = Term { coefficient, atoms }.normalized();
     let deltas = log_coefficients(form, terms);
     let mut corrections = exp_series(&deltas);
     corrections.remove(0);
@@ -176,7 +172,8 @@ pub fn numeric_corrections(
         .map(|m| {
             let mut sum = Q::from_integer(BigInt::from(0));
             for (h, e) in &shifts {
-                sum += bernoulli_polynomial_at(m + 1, h, &numbers) * Q::from_integer(BigInt::from(*e));
+                sum +=
+                    bernoulli_polynomial_at(m + 1, h, &numbers) * Q::from_integer(BigInt::from(*e));
             }
             let sign = if m % 2 == 1 { 1 } else { -1 };
             sum * Q::new(BigInt::from(sign), BigInt::from((m * (m + 1)) as u64))

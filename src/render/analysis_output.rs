@@ -8,10 +8,9 @@ use num_traits::{One, Signed};
 
 use crate::algebra::{rational_roots, Poly, RatFunc, Q};
 use crate::analysis::{
-    Analysis, Atom, Expr, Finiteness, HyperSeries, Inequality, Moment, NumberReport,
-    Requirement, Term, Verdict,
+    Analysis, Atom, Expr, Finiteness, HyperSeries, Inequality, Moment, NumberReport, Requirement,
+    Term, Verdict,
 };
-use crate::closed_form::Product;
 
 use super::node::{Function, Node};
 use super::{latex, text, to_node};
@@ -24,11 +23,42 @@ pub fn ratfunc_node(r: &RatFunc) -> Node {
     if let Some(c) = r.as_constant() {
         return to_node::rational(&c);
     }
+    if let Some(p) = r.as_poly() {
+        if p.total_degree() <= 1 {
+            return to_node::poly(&p);
+        }
+    }
     let (num_scale, mut top) = factored(r.numer());
     let (den_scale, mut bottom) = factored(r.denom());
-    let scale = num_scale / den_scale;
+    let mut scale = num_scale / den_scale;
+    if scale.is_negative() {
+        // Absorb the minus sign into a linear factor: n(1 − p)/p, not −n(p − 1)/p.
+        let flip = |factors: &mut Vec<(Poly, u32)>| -> bool {
+            match factors
+                .iter_mut()
+                .find(|(f, m)| f.total_degree() == 1 && f.term_count() > 1 && m % 2 == 1)
+            {
+                Some(f) => {
+                    f.0 = -f.0.clone();
+                    true
+                }
+                None => false,
+            }
+        };
+        if flip(&mut top) || flip(&mut bottom) {
+            scale = -scale;
+        }
+    }
     let negative = scale.is_negative();
     let magnitude = scale.abs();
+    let nodes = |factors: Vec<(Poly, u32)>| -> Vec<Node> {
+        factors
+            .into_iter()
+            .map(|(f, m)| Node::pow(to_node::poly(&f), Node::int(m as i64)))
+            .collect()
+    };
+    let mut top = nodes(top);
+    let mut bottom = nodes(bottom);
     if !magnitude.numer().is_one() {
         top.insert(0, Node::Int(magnitude.numer().clone()));
     }
@@ -43,46 +73,76 @@ pub fn ratfunc_node(r: &RatFunc) -> Node {
     }
 }
 
-/// `p = scale · Π factors`, with integer-coefficient factors whose leading coefficient is
-/// positive.
-fn factored(p: &Poly) -> (Q, Vec<Node>) {
+/// `p = scale · Π factor^multiplicity`: a common monomial split off, then a univariate rest
+/// split at its rational roots into integer linear factors.
+fn factored(p: &Poly) -> (Q, Vec<(Poly, u32)>) {
     if let Some(c) = p.as_constant() {
         return (c, Vec::new());
     }
     let (content, primitive) = p.content_and_primitive();
-    let vars = primitive.variables();
-    let var = match vars.iter().next() {
-        Some(v) if vars.len() == 1 => v.clone(),
-        _ => return (content, vec![to_node::poly(&primitive)]),
-    };
-    let Some(coeffs) = primitive.univariate_coeffs(&var) else {
-        return (content, vec![to_node::poly(&primitive)]);
-    };
-    let (roots, cofactor) = rational_roots(&coeffs);
-    let mut rebuilt = Poly::one();
-    let mut nodes = Vec::new();
-    let x = Poly::var(&var);
-    for (root, multiplicity) in roots {
-        // (d·x − n) for the root n/d
-        let d = Poly::constant(Q::from_integer(root.denom().clone()));
-        let n = Poly::constant(Q::from_integer(root.numer().clone()));
-        let linear = &(&d * &x) - &n;
-        for _ in 0..multiplicity {
-            rebuilt = &rebuilt * &linear;
+    let mut factors: Vec<(Poly, u32)> = Vec::new();
+    // The common monomial: each variable to its smallest power over the terms.
+    let mut rest = primitive.clone();
+    for var in primitive.variables() {
+        let lowest = primitive
+            .terms()
+            .map(|(m, _)| {
+                m.factors()
+                    .find(|(n, _)| *n == var)
+                    .map(|(_, e)| e)
+                    .unwrap_or(0)
+            })
+            .min()
+            .unwrap_or(0);
+        if lowest > 0 {
+            let x = Poly::var(&var);
+            let divisor = x.pow(lowest);
+            if let Some(q) = rest.div_exact(&divisor) {
+                rest = q;
+                factors.push((x, lowest));
+            }
         }
-        nodes.push(Node::pow(to_node::poly(&linear), Node::int(multiplicity as i64)));
     }
-    if cofactor.len() > 1 {
-        let rest = Poly::from_univariate(&var, &cofactor);
-        let (_, rest) = rest.content_and_primitive();
-        rebuilt = &rebuilt * &rest;
-        nodes.push(to_node::poly(&rest));
+    let vars = rest.variables();
+    let univariate = vars.len() == 1;
+    let coeffs = vars
+        .iter()
+        .next()
+        .filter(|_| univariate)
+        .and_then(|v| rest.univariate_coeffs(v).map(|c| (v.clone(), c)));
+    let mut rebuilt = factors
+        .iter()
+        .fold(Poly::one(), |acc, (f, m)| &acc * &f.pow(*m));
+    match coeffs {
+        Some((var, coeffs)) if rest.total_degree() > 1 => {
+            let (roots, cofactor) = rational_roots(&coeffs);
+            let x = Poly::var(&var);
+            for (root, multiplicity) in roots {
+                // (d·x − n) for the root n/d
+                let d = Poly::constant(Q::from_integer(root.denom().clone()));
+                let n = Poly::constant(Q::from_integer(root.numer().clone()));
+                let linear = &(&d * &x) - &n;
+                rebuilt = &rebuilt * &linear.pow(multiplicity);
+                factors.push((linear, multiplicity));
+            }
+            if cofactor.len() > 1 {
+                let (_, left) = Poly::from_univariate(&var, &cofactor).content_and_primitive();
+                rebuilt = &rebuilt * &left;
+                factors.push((left, 1));
+            }
+        }
+        _ => {
+            if !rest.is_one() {
+                rebuilt = &rebuilt * &rest;
+                factors.push((rest, 1));
+            }
+        }
     }
     let ratio = primitive
         .div_exact(&rebuilt)
         .and_then(|q| q.as_constant())
         .unwrap_or_else(Q::one);
-    (content * ratio, nodes)
+    (content * ratio, factors)
 }
 
 /// A term as a layout node: coefficient, Gamma values, powers, exp, ln and √π.
@@ -249,8 +309,16 @@ fn number_text(n: &NumberReport) -> String {
     out
 }
 
-fn product_node(p: &Product, index: &str) -> Node {
-    to_node::product(p, index, Vec::new())
+/// The prefactor as shown: `a(b)·C`, or the normalised `C/total`.
+fn prefactor_node(a: &Analysis, t: &crate::analysis::TailReport) -> Node {
+    match &t.normalized_prefactor {
+        Some(term) => term_node(term),
+        None => to_node::product(
+            &t.law.prefactor,
+            &a.index,
+            vec![base_term(a, &a.normalization.base_index)],
+        ),
+    }
 }
 
 fn base_term(a: &Analysis, b: &num_bigint::BigInt) -> Node {
@@ -264,14 +332,22 @@ fn law_shape(a: &Analysis, d: i64, rate_is_one: bool, terms: usize) -> String {
     if !rate_is_one {
         parts.push(format!("r^{k}"));
     }
-    if d != 0 {
-        parts.push(format!("({k}/e)^({d}{k})"));
+    match d {
+        0 => {}
+        1 => parts.push(format!("({k}/e)^{k}")),
+        -1 => parts.push(format!("({k}/e)^(−{k})")),
+        d if d < 0 => parts.push(format!("({k}/e)^(−{}{k})", -d)),
+        d => parts.push(format!("({k}/e)^({d}{k})")),
     }
     parts.push(format!("{k}^θ"));
     let mut series = String::from("1");
     let supers = ["", "", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹"];
     for n in 1..=terms {
-        let power = if n < supers.len() { supers[n].to_string() } else { format!("^{n}") };
+        let power = if n < supers.len() {
+            supers[n].to_string()
+        } else {
+            format!("^{n}")
+        };
         series += &format!(" + c{}/{k}{power}", subscript(n));
     }
     series += " + …";
@@ -295,25 +371,36 @@ pub fn analysis_text(a: &Analysis) -> String {
         let law = &t.law;
         out += &format!(
             "tail law     {}{}\n",
-            law_shape(a, law.factorial_power, law.rate.is_one(), law.corrections.len()),
-            if t.conditional { "   (when the support is infinite)" } else { "" }
+            law_shape(
+                a,
+                law.factorial_power,
+                law.rate.is_one(),
+                law.corrections.len()
+            ),
+            if t.conditional {
+                "   (when the support is infinite)"
+            } else {
+                ""
+            }
         );
-        let prefactor = t.normalized_prefactor.as_ref().unwrap_or(&law.prefactor);
-        let mut c = text::write(&product_node(prefactor, index));
-        if t.normalized_prefactor.is_none() {
-            c = format!("{} · {c}", text::write(&base_term(a, &a.normalization.base_index)));
-        }
-        out += &format!("  C          {c}\n");
+        out += &format!("  C          {}\n", text::write(&prefactor_node(a, t)));
         if !law.rate.is_one() {
             out += &format!("  r          {}\n", text::write(&ratfunc_node(&law.rate)));
         }
         out += &format!("  θ          {}", text::write(&ratfunc_node(&law.power)));
         if let Some(gamma) = law.tail_exponent() {
-            out += &format!("   (power-law tail exponent γ = −θ = {})", text::write(&ratfunc_node(&gamma)));
+            out += &format!(
+                "   (power-law tail exponent γ = −θ = {})",
+                text::write(&ratfunc_node(&gamma))
+            );
         }
         out += "\n";
         for (n, c) in law.corrections.iter().enumerate() {
-            out += &format!("  c{:<10}{}\n", subscript(n + 1), text::write(&ratfunc_node(c)));
+            out += &format!(
+                "  c{:<10}{}\n",
+                subscript(n + 1),
+                text::write(&ratfunc_node(c))
+            );
         }
         if let Some(nums) = &t.numbers {
             out += &format!("  C ≈        {}\n", nums.prefactor);
@@ -329,7 +416,10 @@ pub fn analysis_text(a: &Analysis) -> String {
     let b = &norm.base_index;
     let (series_text, _) = series_strings(&norm.series);
     let a_b = text::write(&base_term(a, b));
-    out += &format!("total        Σ_{{{index}≥{b}}} {}({index}) = {a_b} · {series_text}\n", a.sequence);
+    out += &format!(
+        "total        Σ_{{{index}≥{b}}} {}({index}) = {a_b} · {series_text}\n",
+        a.sequence
+    );
     if let Some((e, theorem)) = &norm.closed_form {
         out += &format!(
             "  closed form  {a_b} · {}   by {}\n",
@@ -387,19 +477,23 @@ pub fn analysis_latex(a: &Analysis) -> String {
     if let Some(t) = &a.tail {
         let law = &t.law;
         let mut parts = Vec::new();
-        let prefactor = t.normalized_prefactor.as_ref().unwrap_or(&law.prefactor);
-        let mut c = latex::write(&product_node(prefactor, index));
-        if t.normalized_prefactor.is_none() {
-            c = format!("{}\\,{c}", latex::write(&base_term(a, &a.normalization.base_index)));
-        }
-        parts.push(c);
+        parts.push(latex::write(&prefactor_node(a, t)));
         if !law.rate.is_one() {
-            parts.push(format!("{}^{{{index}}}", latex::write(&Node::pow(ratfunc_node(&law.rate), Node::int(1)))));
+            parts.push(format!(
+                "{}^{{{index}}}",
+                latex::write(&Node::pow(ratfunc_node(&law.rate), Node::int(1)))
+            ));
         }
         if law.factorial_power != 0 {
-            parts.push(format!("\\left(\\frac{{{index}}}{{e}}\\right)^{{{}{index}}}", law.factorial_power));
+            parts.push(format!(
+                "\\left(\\frac{{{index}}}{{e}}\\right)^{{{}{index}}}",
+                law.factorial_power
+            ));
         }
-        parts.push(format!("{index}^{{{}}}", latex::write(&ratfunc_node(&law.power))));
+        parts.push(format!(
+            "{index}^{{{}}}",
+            latex::write(&ratfunc_node(&law.power))
+        ));
         let mut series = String::from("1");
         for (n, c) in law.corrections.iter().enumerate() {
             let node = ratfunc_node(c);
@@ -411,7 +505,10 @@ pub fn analysis_latex(a: &Analysis) -> String {
         }
         series += " + \\dotsb";
         parts.push(format!("\\left({series}\\right)"));
-        lines.push(format!("  {seq_k} &\\sim {} && {index} \\to \\infty", parts.join("\\,")));
+        lines.push(format!(
+            "  {seq_k} &\\sim {} && {index} \\to \\infty",
+            parts.join("\\,")
+        ));
     }
     let norm = &a.normalization;
     let b = &norm.base_index;
@@ -422,10 +519,16 @@ pub fn analysis_latex(a: &Analysis) -> String {
         total += &format!(" = {a_b}\\,{}", wrap_sum(&expr_node(e)));
     }
     lines.push(total);
-    for (name, m) in [("\\operatorname{E}", &a.mean), ("\\operatorname{Var}", &a.variance)] {
+    for (name, m) in [
+        ("\\operatorname{E}", &a.mean),
+        ("\\operatorname{Var}", &a.variance),
+    ] {
         match (&m.finiteness, &m.closed_form) {
             (Finiteness::Infinite(_), _) => lines.push(format!("  {name}[{index}] &= \\infty")),
-            (_, Some((e, _))) => lines.push(format!("  {name}[{index}] &= {}", latex::write(&expr_node(e)))),
+            (_, Some((e, _))) => lines.push(format!(
+                "  {name}[{index}] &= {}",
+                latex::write(&expr_node(e))
+            )),
             _ => {}
         }
     }
@@ -437,7 +540,9 @@ pub fn analysis_latex(a: &Analysis) -> String {
         .iter()
         .chain(&a.mean.requirements)
         .chain(&a.variance.requirements)
-        .filter(|r| !matches!(r.inequality, Inequality::Positive(ref e) if e.as_constant().is_some()))
+        .filter(
+            |r| !matches!(r.inequality, Inequality::Positive(ref e) if e.as_constant().is_some()),
+        )
         .map(|r| format!("${}$ ({})", inequality_strings(&r.inequality).1, r.purpose))
         .collect();
     if !conditions.is_empty() {
@@ -489,11 +594,33 @@ fn finite_json(f: &Finiteness) -> Value {
 }
 
 fn number_fields(m: &mut Map<String, Value>, n: Option<&NumberReport>) {
-    m.insert("value".into(), n.map(|n| Value::String(n.value.clone())).unwrap_or(Value::Null));
-    m.insert("exact".into(), n.and_then(|n| n.exact.clone()).map(Value::String).unwrap_or(Value::Null));
-    m.insert("error_bound".into(), n.map(|n| Value::String(n.error_bound.clone())).unwrap_or(Value::Null));
-    m.insert("method".into(), n.map(|n| Value::String(n.method.clone())).unwrap_or(Value::Null));
-    m.insert("check_rel_diff".into(), n.and_then(|n| n.check.clone()).map(Value::String).unwrap_or(Value::Null));
+    m.insert(
+        "value".into(),
+        n.map(|n| Value::String(n.value.clone()))
+            .unwrap_or(Value::Null),
+    );
+    m.insert(
+        "exact".into(),
+        n.and_then(|n| n.exact.clone())
+            .map(Value::String)
+            .unwrap_or(Value::Null),
+    );
+    m.insert(
+        "error_bound".into(),
+        n.map(|n| Value::String(n.error_bound.clone()))
+            .unwrap_or(Value::Null),
+    );
+    m.insert(
+        "method".into(),
+        n.map(|n| Value::String(n.method.clone()))
+            .unwrap_or(Value::Null),
+    );
+    m.insert(
+        "check_rel_diff".into(),
+        n.and_then(|n| n.check.clone())
+            .map(Value::String)
+            .unwrap_or(Value::Null),
+    );
 }
 
 fn moment_json(m: &Moment) -> Value {
@@ -508,7 +635,10 @@ fn moment_json(m: &Moment) -> Value {
             .map(|(e, _)| Value::Object(formula(&expr_node(e))))
             .unwrap_or(Value::Null),
     );
-    out.insert("condition".into(), Value::Array(m.requirements.iter().map(requirement_json).collect()));
+    out.insert(
+        "condition".into(),
+        Value::Array(m.requirements.iter().map(requirement_json).collect()),
+    );
     out.insert("finite".into(), finite_json(&m.finiteness));
     number_fields(&mut out, m.value.as_ref());
     Value::Object(out)
@@ -516,22 +646,22 @@ fn moment_json(m: &Moment) -> Value {
 
 /// The JSON fields `tail`, `normalization`, `mean`, `variance` and `divergent`.
 pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
-    let index = &a.index;
     let mut out = Map::new();
     let tail = a.tail.as_ref().map(|t| {
         let law = &t.law;
         let nums = t.numbers.as_ref();
-        let prefactor = t.normalized_prefactor.as_ref().unwrap_or(&law.prefactor);
         json!({
             "rate": with_value(&ratfunc_node(&law.rate), nums.map(|n| n.rate.as_str())),
             "power": with_value(&ratfunc_node(&law.power), nums.map(|n| n.power.as_str())),
             "factorial_power": law.factorial_power.to_string(),
-            "prefactor": with_value(&product_node(prefactor, index), nums.map(|n| n.prefactor.as_str())),
+            "prefactor": with_value(&prefactor_node(a, t), nums.map(|n| n.prefactor.as_str())),
             "prefactor_normalized": t.normalized_prefactor.is_some(),
             "corrections": law.corrections.iter().enumerate().map(|(i, c)| {
                 with_value(&ratfunc_node(c), nums.and_then(|n| n.corrections.get(i)).map(|s| s.as_str()))
             }).collect::<Vec<_>>(),
-            "tail_exponent": law.tail_exponent().map(|g| with_value(&ratfunc_node(&g), None)),
+            "tail_exponent": law.tail_exponent().map(|g| {
+                with_value(&ratfunc_node(&g), nums.and_then(|n| n.tail_exponent.as_deref()))
+            }),
             "conditional": t.conditional,
             "check": nums.and_then(|n| n.check.as_ref()).map(|c| json!({
                 "k": c.k.to_string(), "rel_diff": c.rel_diff, "next_term": c.next_term,
@@ -554,11 +684,20 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
             })
             .unwrap_or(Value::Null),
     );
-    n.insert("condition".into(), Value::Array(norm.requirements.iter().map(requirement_json).collect()));
+    n.insert(
+        "condition".into(),
+        Value::Array(norm.requirements.iter().map(requirement_json).collect()),
+    );
     n.insert("finite".into(), finite_json(&norm.finiteness));
     n.insert("finite_support".into(), Value::Bool(norm.finite_support));
     number_fields(&mut n, norm.value.as_ref());
-    n.insert("numeric_note".into(), norm.numeric_note.clone().map(Value::String).unwrap_or(Value::Null));
+    n.insert(
+        "numeric_note".into(),
+        norm.numeric_note
+            .clone()
+            .map(Value::String)
+            .unwrap_or(Value::Null),
+    );
     n.insert(
         "base_value".into(),
         match &norm.base_value {
@@ -583,7 +722,11 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
         ("variance", &a.variance.finiteness, &a.variance.requirements),
     ] {
         if let Finiteness::Infinite(why) = f {
-            let failed: Vec<Value> = reqs.iter().filter(|r| r.fails()).map(requirement_json).collect();
+            let failed: Vec<Value> = reqs
+                .iter()
+                .filter(|r| r.fails())
+                .map(requirement_json)
+                .collect();
             divergent.push(json!({ "quantity": name, "reason": why, "failed": failed }));
         }
     }
