@@ -441,3 +441,43 @@ fn solve_json_carries_tail_normalization_mean_variance() {
     assert_eq!(v["divergent"][0]["failed"][0]["text"], "α − 2 > 0");
     assert_eq!(v["tail"]["tail_exponent"]["text"], "α + 1");
 }
+
+/// Snapshots of the analysis sections for every model in `examples/` (symbolic) and one
+/// numeric case: reviewed like code, a change here is a change users see.
+#[test]
+fn analysis_sections_of_every_example() {
+    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/examples");
+    let mut files: Vec<_> = std::fs::read_dir(dir)
+        .unwrap()
+        .filter_map(|e| e.ok())
+        .map(|e| e.path())
+        .filter(|p| p.extension().map(|x| x == "rule").unwrap_or(false))
+        .collect();
+    files.sort();
+    assert!(files.len() >= 3);
+    for path in files {
+        let name = path.file_stem().unwrap().to_string_lossy().into_owned();
+        let text = std::fs::read_to_string(&path).unwrap();
+        let problem = build_problem(&text).unwrap();
+        let solution = solve(&problem, &BTreeMap::new()).unwrap();
+        let a = analyse(&problem, &solution, &AnalysisRequest::default()).unwrap();
+        insta::assert_snapshot!(
+            format!("{name}_analysis_text"),
+            telescope::render::analysis_text(&a)
+        );
+        insta::assert_snapshot!(
+            format!("{name}_analysis_latex"),
+            telescope::render::analysis_latex(&a)
+        );
+        insta::assert_json_snapshot!(
+            format!("{name}_analysis_json"),
+            telescope::render::analysis_json(&a)
+        );
+    }
+    let values: BTreeMap<String, Q> = [("alpha".to_string(), q("5/2"))].into();
+    let a = analysis_of("a(k)/a(k-1) = (k-1)/(k+alpha) for k >= 2", &values, 30);
+    insta::assert_snapshot!(
+        "yule_simon_5_2_analysis_text",
+        telescope::render::analysis_text(&a)
+    );
+}

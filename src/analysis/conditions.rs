@@ -120,27 +120,42 @@ struct End {
 fn sign_from_ranges(expr: &RatFunc, params: &[Param]) -> Option<bool> {
     let num = affine_range(expr.numer(), params)?;
     let den = affine_range(expr.denom(), params)?;
-    let positive = |r: &(Option<End>, Option<End>)| -> Option<bool> {
-        if let Some(lo) = &r.0 {
-            if lo.value.is_positive() || (lo.value.is_zero() && !lo.attained) {
-                return Some(true);
-            }
-        }
-        if let Some(hi) = &r.1 {
-            if hi.value.is_negative() || (hi.value.is_zero() && !hi.attained) {
-                return Some(false);
-            }
-            if hi.value.is_zero() {
-                return Some(false); // ≤ 0 everywhere
-            }
-        }
-        None
-    };
-    match (positive(&num)?, positive(&den)?) {
-        (true, true) => Some(true),
-        (false, true) => Some(false),
+    let (num, den) = (sign_of(&num)?, sign_of(&den)?);
+    use Sign::*;
+    match (num, den) {
+        (Positive, Positive) | (Negative, Negative) => Some(true),
+        (Positive | Negative, _) if den == NonPositive => None,
+        (Negative | NonPositive, Positive) => Some(false),
+        (Positive, Negative) => Some(false),
         _ => None,
     }
+}
+
+#[derive(Clone, Copy, Debug, PartialEq)]
+enum Sign {
+    /// > 0 everywhere
+    Positive,
+    /// < 0 everywhere
+    Negative,
+    /// ≤ 0 everywhere
+    NonPositive,
+}
+
+fn sign_of(r: &(Option<End>, Option<End>)) -> Option<Sign> {
+    if let Some(lo) = &r.0 {
+        if lo.value.is_positive() || (lo.value.is_zero() && !lo.attained) {
+            return Some(Sign::Positive);
+        }
+    }
+    if let Some(hi) = &r.1 {
+        if hi.value.is_negative() || (hi.value.is_zero() && !hi.attained) {
+            return Some(Sign::Negative);
+        }
+        if hi.value.is_zero() {
+            return Some(Sign::NonPositive);
+        }
+    }
+    None
 }
 
 /// The range of an affine polynomial over the declared box: (lower end, upper end), `None`

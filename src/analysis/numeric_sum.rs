@@ -16,7 +16,7 @@ use rug::{Float, Rational};
 use super::bernoulli::bernoulli_numbers_gmp;
 use super::hurwitz::hurwitz_zeta;
 use super::hypergeometric::RisingForm;
-use super::tail::{numeric_corrections, tail_law};
+use super::tail::{numeric_corrections_gmp, tail_law};
 use crate::algebra::Q;
 use crate::numeric::{bits_for_digits, to_rug_integer, to_rug_rational, GUARD_BITS};
 
@@ -317,7 +317,7 @@ fn term_by_term(
                 }
                 let last_term = Float::with_val(64, head.a.abs_ref())
                     * Float::with_val(64, &k_now).pow(j as u32);
-                let tail = Float::with_val(64, &rho / Rational::from(1 - rho.clone()));
+                let tail = Float::with_val(64, &rho / (1 - rho.clone()));
                 *bound = last_term * tail * 1.01f64;
                 let scale = Float::with_val(64, head.sums[j].abs_ref());
                 if *bound > Float::with_val(64, &scale * &target) {
@@ -381,7 +381,7 @@ fn euler_maclaurin(
         .ok_or_else(|| SumFailure::Unsupported("the prefactor has a pole".into()))?;
     // Terms shrink like n/(2πK) with K ≈ 4·digits: about digits/2.5 of them reach the target.
     let max_terms = (digits as usize / 2 + 24).min(600);
-    let corrections = numeric_corrections(&rule.form, &Default::default(), max_terms)
+    let corrections = numeric_corrections_gmp(&rule.form, &Default::default(), max_terms)
         .ok_or_else(|| SumFailure::Unsupported("symbolic shifts".into()))?;
     // x^(−s) with s up to max_terms: each Euler–Maclaurin term gains ≥ (2πK/(s+2i))², so
     // this many Bernoulli numbers always suffice (common practice sizing).
@@ -454,7 +454,7 @@ fn constant_of(rule: &NumericRule) -> Q {
 /// number of expansion terms used; `None` when the series stops shrinking first.
 #[allow(clippy::too_many_arguments)]
 fn tail_sum(
-    corrections: &[Q],
+    corrections: &[Rational],
     theta: &Q,
     j: &Q,
     big_k: u64,
@@ -471,15 +471,16 @@ fn tail_sum(
     let mut previous: Option<Float> = None;
     for (n, c) in corrections.iter().enumerate() {
         let s = Q::from_integer((n as i64).into()) - theta - j;
+        let c_is_zero = *c == 0;
         let (zeta, zeta_err) = hurwitz_zeta(&s, big_k, prec, bernoulli, &zeta_target)?;
-        let c_f = Float::with_val(prec, to_rug_rational(c));
+        let c_f = Float::with_val(prec, c);
         let term = Float::with_val(prec, &c_f * &zeta) * c_value;
         let magnitude = Float::with_val(64, term.abs_ref());
         // The first omitted term, doubled, bounds the truncation (asymptotic series of a
         // Gamma quotient with real parameters beyond its largest shift, common practice).
-        if c.is_zero() && n > 0 {
+        if c_is_zero && n > 0 {
             // An exact expansion (e.g. a rational a(k)) contributes nothing more.
-            if corrections[n..].iter().all(|c| c.is_zero()) {
+            if corrections[n..].iter().all(|c| *c == 0) {
                 return Some((total, error, n));
             }
         }
@@ -488,7 +489,7 @@ fn tail_sum(
             return Some((total, error, n));
         }
         if let Some(p) = &previous {
-            if magnitude > *p && !c.is_zero() {
+            if magnitude > *p && !c_is_zero {
                 return None;
             }
         }

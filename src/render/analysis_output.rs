@@ -34,10 +34,11 @@ pub fn ratfunc_node(r: &RatFunc) -> Node {
     if scale.is_negative() {
         // Absorb the minus sign into a linear factor: n(1 − p)/p, not −n(p − 1)/p.
         let flip = |factors: &mut Vec<(Poly, u32)>| -> bool {
-            match factors
-                .iter_mut()
-                .find(|(f, m)| f.total_degree() == 1 && f.term_count() > 1 && m % 2 == 1)
-            {
+            match factors.iter_mut().find(|(f, m)| {
+                // only x − c becomes c − x; x + c stays and the sign stays in front
+                let negative_constant = f.terms().any(|(m, c)| m.degree() == 0 && c.is_negative());
+                f.total_degree() == 1 && negative_constant && m % 2 == 1
+            }) {
                 Some(f) => {
                     f.0 = -f.0.clone();
                     true
@@ -176,7 +177,14 @@ pub fn term_node(t: &Term) -> Node {
             }
             Atom::Power { base, exponent } => {
                 let total = &exponent.0 * &RatFunc::from_integer(*e as i64);
-                top.push(Node::pow(ratfunc_node(&base.0), ratfunc_node(&total)));
+                let half = RatFunc::constant(Q::new(1.into(), 2.into()));
+                if total == half {
+                    top.push(Node::Call(Function::Sqrt, vec![ratfunc_node(&base.0)]));
+                } else if total == -half {
+                    bottom.push(Node::Call(Function::Sqrt, vec![ratfunc_node(&base.0)]));
+                } else {
+                    top.push(Node::pow(ratfunc_node(&base.0), ratfunc_node(&total)));
+                }
                 continue;
             }
         };
@@ -274,7 +282,7 @@ pub fn inequality_strings(i: &Inequality) -> (String, String) {
             let (t, l) = both(&ratfunc_node(e));
             (format!("|{t}| < 1"), format!("\\left|{l}\\right| < 1"))
         }
-        Inequality::Never(why) => (format!("never ({why})"), format!("\\text{{never}}")),
+        Inequality::Never(why) => (format!("never ({why})"), "\\text{never}".to_string()),
     }
 }
 
@@ -311,13 +319,23 @@ fn number_text(n: &NumberReport) -> String {
 
 /// The prefactor as shown: `a(b)·C`, or the normalised `C/total`.
 fn prefactor_node(a: &Analysis, t: &crate::analysis::TailReport) -> Node {
+    // Rendered from the exact term (the same value as `law.prefactor`), which writes 2^(1/2)
+    // as √2 and keeps numbers apart from powers.
     match &t.normalized_prefactor {
         Some(term) => term_node(term),
-        None => to_node::product(
-            &t.law.prefactor,
-            &a.index,
-            vec![base_term(a, &a.normalization.base_index)],
+        None => times(
+            base_term(a, &a.normalization.base_index),
+            term_node(&t.law.prefactor_term),
         ),
+    }
+}
+
+/// `lead · node`, with `lead` joining the numerator of a fraction.
+fn times(lead: Node, node: Node) -> Node {
+    match node {
+        Node::Frac(n, d) => Node::frac(Node::product(vec![lead, *n]), *d),
+        Node::Neg(inner) => times(lead, *inner).negate(),
+        other => Node::product(vec![lead, other]),
     }
 }
 
@@ -325,12 +343,18 @@ fn base_term(a: &Analysis, b: &num_bigint::BigInt) -> Node {
     Node::Term(a.sequence.clone(), Box::new(Node::Int(b.clone())))
 }
 
-/// The law's shape, e.g. `C · r^k · (k/e)^(d·k) · k^θ · (1 + c₁/k + c₂/k² + …)`.
-fn law_shape(a: &Analysis, d: i64, rate_is_one: bool, terms: usize) -> String {
+/// The law's shape with the rate and the power written out, e.g.
+/// `C · q^k · (k/e)^(−k) · k^(r − 1) · (1 + c₁/k + c₂/k² + …)`.
+fn law_shape(a: &Analysis, law: &crate::analysis::Tail) -> String {
     let k = &a.index;
+    let d = law.factorial_power;
+    let terms = law.corrections.len();
     let mut parts = vec!["C".to_string()];
-    if !rate_is_one {
-        parts.push(format!("r^{k}"));
+    if !law.rate.is_one() {
+        parts.push(text::write(&Node::pow(
+            ratfunc_node(&law.rate),
+            Node::sym(k),
+        )));
     }
     match d {
         0 => {}
@@ -339,7 +363,12 @@ fn law_shape(a: &Analysis, d: i64, rate_is_one: bool, terms: usize) -> String {
         d if d < 0 => parts.push(format!("({k}/e)^(−{}{k})", -d)),
         d => parts.push(format!("({k}/e)^({d}{k})")),
     }
-    parts.push(format!("{k}^θ"));
+    if !law.power.is_zero() {
+        parts.push(text::write(&Node::pow(
+            Node::sym(k),
+            ratfunc_node(&law.power),
+        )));
+    }
     let mut series = String::from("1");
     let supers = ["", "", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹"];
     for n in 1..=terms {
@@ -371,12 +400,7 @@ pub fn analysis_text(a: &Analysis) -> String {
         let law = &t.law;
         out += &format!(
             "tail law     {}{}\n",
-            law_shape(
-                a,
-                law.factorial_power,
-                law.rate.is_one(),
-                law.corrections.len()
-            ),
+            law_shape(a, law),
             if t.conditional {
                 "   (when the support is infinite)"
             } else {
@@ -385,9 +409,9 @@ pub fn analysis_text(a: &Analysis) -> String {
         );
         out += &format!("  C          {}\n", text::write(&prefactor_node(a, t)));
         if !law.rate.is_one() {
-            out += &format!("  r          {}\n", text::write(&ratfunc_node(&law.rate)));
+            out += &format!("  rate       {}\n", text::write(&ratfunc_node(&law.rate)));
         }
-        out += &format!("  θ          {}", text::write(&ratfunc_node(&law.power)));
+        out += &format!("  power      {}", text::write(&ratfunc_node(&law.power)));
         if let Some(gamma) = law.tail_exponent() {
             out += &format!(
                 "   (power-law tail exponent γ = −θ = {})",
@@ -421,11 +445,11 @@ pub fn analysis_text(a: &Analysis) -> String {
         a.sequence
     );
     if let Some((e, theorem)) = &norm.closed_form {
-        out += &format!(
-            "  closed form  {a_b} · {}   by {}\n",
-            text::write(&expr_node(e)),
-            theorem.name()
-        );
+        let value = match expr_node(e) {
+            sum @ Node::Sum(_) => format!("({})", text::write(&sum)),
+            other => text::write(&other),
+        };
+        out += &format!("  closed form  {a_b} · {value}   by {}\n", theorem.name());
     }
     if norm.finite_support {
         out += "  finite support: a finite sum\n";
@@ -496,12 +520,19 @@ pub fn analysis_latex(a: &Analysis) -> String {
         ));
         let mut series = String::from("1");
         for (n, c) in law.corrections.iter().enumerate() {
+            if c.is_zero() {
+                continue;
+            }
             let node = ratfunc_node(c);
             let (sign, body) = match node {
-                Node::Neg(inner) => ("-", latex::write(&inner)),
-                other => ("+", latex::write(&other)),
+                Node::Neg(inner) => ("-", *inner),
+                other => ("+", other),
             };
-            series += &format!(" {sign} \\frac{{{body}}}{{{index}^{{{}}}}}", n + 1);
+            let body = match body {
+                Node::Sum(_) => format!("\\left({}\\right)", latex::write(&body)),
+                other => latex::write(&other),
+            };
+            series += &format!(" {sign} {body}\\,{index}^{{-{}}}", n + 1);
         }
         series += " + \\dotsb";
         parts.push(format!("\\left({series}\\right)"));
@@ -543,7 +574,13 @@ pub fn analysis_latex(a: &Analysis) -> String {
         .filter(
             |r| !matches!(r.inequality, Inequality::Positive(ref e) if e.as_constant().is_some()),
         )
-        .map(|r| format!("${}$ ({})", inequality_strings(&r.inequality).1, r.purpose))
+        .map(|r| {
+            format!(
+                "${}$ ({})",
+                inequality_strings(&r.inequality).1,
+                latex_purpose(&r.purpose)
+            )
+        })
         .collect();
     if !conditions.is_empty() {
         let mut unique: Vec<String> = Vec::new();
@@ -555,6 +592,18 @@ pub fn analysis_latex(a: &Analysis) -> String {
         out += &format!("where {}.\n", unique.join("; "));
     }
     out
+}
+
+/// The purpose in plain ASCII words (the text form uses Σ and ², which amsmath alone does not
+/// typeset outside math mode).
+fn latex_purpose(purpose: &str) -> &'static str {
+    if purpose.contains("mean") {
+        "finite mean"
+    } else if purpose.contains("variance") {
+        "finite variance"
+    } else {
+        "convergent total"
+    }
 }
 
 fn wrap_sum(n: &Node) -> String {
