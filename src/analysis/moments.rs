@@ -152,6 +152,29 @@ mod tests {
     }
 
     #[test]
+    fn hypergeometric_distribution_by_chu_vandermonde() {
+        // N = 20, K = 7, n = 12: pmf ratio (K−k+1)(n−k+1)/(k(N−K−n+k)); total with a(0) = 1 is
+        // C(20,12)/C(13,12) = 9690, mean nK/N = 21/5, variance nK(N−K)(N−n)/(N²(N−1)) = 546/475
+        // (scipy.stats.hypergeom docs; Chu–Vandermonde, DLMF 15.4.24)
+        let rule = "a(k)/a(k-1) = (8-k)*(13-k)/(k*(k+1)) for k >= 1";
+        let problem = build_problem(rule).unwrap();
+        let form = RisingForm::from_ratio(&problem.ratio);
+        let series = HyperSeries::of_sum(&form, &problem.base_index());
+        let (total, theorem) = closed_sum(&series).unwrap();
+        assert_eq!(theorem, Theorem::ChuVandermonde);
+        assert_eq!(total.as_rational(), Some(&RatFunc::from_integer(9690)));
+        let m = closed_moments(&series, &total, &problem.base_index());
+        assert_eq!(
+            m.mean.unwrap().0.as_rational(),
+            Some(RatFunc::constant(q(21, 5)))
+        );
+        assert_eq!(
+            m.variance.unwrap().0.as_rational(),
+            Some(RatFunc::constant(q(546, 475)))
+        );
+    }
+
+    #[test]
     fn binomial_and_logarithmic_moments() {
         // binomial n = 12, p = 3/10: mean np = 18/5, variance np(1−p) = 63/25 (scipy.stats.binom)
         let m = moments("a(k)/a(k-1) = (12-k+1)*(3/10)/(k*(1-3/10)) for k >= 1");

@@ -98,7 +98,9 @@ pub enum SumFailure {
 /// Largest finite support summed exactly.
 const MAX_EXACT_TERMS: u64 = 200_000;
 /// Largest number of terms summed one by one.
-const MAX_TERMS: u64 = 5_000_000;
+const MAX_TERMS: u64 = 1_000_000;
+/// Longest head before an Euler–Maclaurin tail (parameters in the millions need more).
+const MAX_HEAD: u64 = 200_000;
 
 /// The three sums to `digits` significant digits (relative error ≤ 10^(−digits−2) for every
 /// convergent one).
@@ -132,6 +134,19 @@ pub fn moment_sums(rule: &NumericRule, digits: u32) -> Result<MomentSums, SumFai
         )));
     }
     if d < 0 || abs_c < one {
+        // Feasibility only (no reported digit depends on this f64 estimate): the terms peak
+        // where |R(k)| = 1, and a ratio r needs about digits·ln 10 / ln(1/r) more terms.
+        let c = abs_c.to_f64().unwrap_or(f64::MAX);
+        let needed = if d < 0 {
+            c.powf(1.0 / (-d) as f64) + digits as f64 * 10.0
+        } else {
+            digits as f64 * std::f64::consts::LN_10 / -c.ln()
+        };
+        if needed > MAX_TERMS as f64 {
+            return Err(SumFailure::Unsupported(format!(
+                "about {needed:.1e} terms would be needed (at most {MAX_TERMS})"
+            )));
+        }
         return term_by_term(&constant, &shifts, &rule.base_index, digits, prec);
     }
     if constant.is_negative() {
@@ -387,6 +402,11 @@ fn euler_maclaurin(
     // this many Bernoulli numbers always suffice (common practice sizing).
     let bernoulli = bernoulli_numbers_gmp(2 * max_terms + 80);
     for _attempt in 0..6 {
+        if head_len > MAX_HEAD {
+            return Err(SumFailure::Unsupported(format!(
+                "the asymptotic law needs more than {MAX_HEAD} direct terms first (parameters this large)"
+            )));
+        }
         let first_tail = &rule.base_index + BigInt::from(head_len);
         let mut head = Head::new(&rule.base_index, prec);
         while head.k < &first_tail - 1 {

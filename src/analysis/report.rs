@@ -314,6 +314,9 @@ fn evaluate_expr(e: &Expr, values: &BTreeMap<String, Q>, digits: u32) -> Option<
     let mut extra = 32u32;
     for _ in 0..6 {
         let (value, error) = e.to_float(values, prec + extra)?;
+        if !value.is_finite() || !error.is_finite() {
+            return None; // beyond MPFR's exponent range
+        }
         let rel = if value.is_zero() {
             Float::with_val(64, f64::INFINITY)
         } else {
@@ -639,11 +642,22 @@ fn tail_numbers(
         request.terms,
     );
     let pure_power = law.factorial_power == 0 && rate == Q::one();
+    // Decimal exponents beyond 10^17 do not print; such a C is shown by its logarithm.
+    let printable = Float::with_val(64, c_shown.ln_abs.abs_ref()) < 1e17f64;
+    let prefactor = if printable {
+        c_shown.to_decimal(digits)
+    } else {
+        let sign = if c_shown.sign < 0 { "-" } else { "" };
+        format!(
+            "{sign}exp({})",
+            decimal::float_to_decimal(&c_shown.ln_abs, digits)
+        )
+    };
     Some(TailNumbers {
         rate: rate.to_string(),
         power: power.to_string(),
         tail_exponent: pure_power.then(|| (-power.clone()).to_string()),
-        prefactor: c_shown.to_decimal(digits),
+        prefactor,
         corrections: corrections[1..=request.terms.min(corrections.len() - 1)]
             .iter()
             .map(|q| q.to_string())

@@ -5,7 +5,7 @@
 
 use std::collections::BTreeMap;
 
-use num_traits::{One, Signed, ToPrimitive};
+use num_traits::{Signed, ToPrimitive};
 use rug::float::Constant;
 use rug::Float;
 
@@ -303,22 +303,21 @@ fn fold_gammas(
     }
     let mut out = Vec::new();
     for (rep, members) in groups {
-        // A constant group is written from its representative in (0, 1]; a symbolic one
-        // from its smallest argument (so the remaining factors are rising products).
-        let (base, shift) = match rep.as_constant() {
-            Some(c) => {
-                let frac = &c - Q::from_integer(c.ceil().to_integer()) + Q::one();
-                let shift = (&c - &frac).to_integer().to_i64().unwrap_or(0);
-                (RatFunc::constant(frac), shift)
+        let min = members.iter().map(|(m, _)| *m).min().unwrap_or(0);
+        let max = members.iter().map(|(m, _)| *m).max().unwrap_or(0);
+        if max - min > MAX_FOLD {
+            // Too far apart to write as one rational factor: each on its own.
+            for (offset, e) in members {
+                let single = vec![(&rep + &RatFunc::from_integer(offset), e)];
+                out.extend(fold_gammas(single, coefficient));
             }
-            None => {
-                let min = members.iter().map(|(m, _)| *m).min().unwrap_or(0);
-                (&rep + &RatFunc::from_integer(min), -min)
-            }
-        };
+            continue;
+        }
+        // From the smallest argument the remaining factors are rising products.
+        let base = &rep + &RatFunc::from_integer(min);
         let mut total = 0i32;
         for (offset, e) in members {
-            let m = offset + shift;
+            let m = offset - min;
             // Γ(base + m) = Γ(base)·(base)_m (DLMF 5.5.1)
             match gamma_shift_ratio(&base, m).and_then(|r| r.pow(e)) {
                 Some(r) => *coefficient = &*coefficient * &r,
@@ -333,16 +332,36 @@ fn fold_gammas(
         if total == 0 {
             continue;
         }
+        let half = Q::new(1.into(), 2.into());
         match base.as_constant() {
-            // Γ(1) = 1 (DLMF 5.4.1)
-            Some(c) if c.is_one() => {}
-            // Γ(1/2) = √π (DLMF 5.4.6)
-            Some(c) if c == Q::new(1.into(), 2.into()) => out.push((base, total, true)),
+            // Γ(n) = (n−1)! (DLMF 5.4.1)
+            Some(c)
+                if c.is_integer() && c.is_positive() && c <= Q::from_integer(MAX_FOLD.into()) =>
+            {
+                let n = c.to_integer().to_i64().unwrap_or(1);
+                let factorial = gamma_shift_ratio(&RatFunc::one(), n - 1).expect("positive");
+                *coefficient = &*coefficient * &factorial.pow(total).expect("non-zero");
+            }
+            // Γ(n + 1/2) = √π·(1/2)_n (DLMF 5.4.6 with DLMF 5.5.1)
+            Some(c)
+                if (&c - &half).is_integer()
+                    && c.is_positive()
+                    && c <= Q::from_integer(MAX_FOLD.into()) =>
+            {
+                let n = (&c - &half).to_integer().to_i64().unwrap_or(0);
+                let rising = gamma_shift_ratio(&RatFunc::constant(half), n).expect("positive");
+                *coefficient = &*coefficient * &rising.pow(total).expect("non-zero");
+                out.push((base, total, true));
+            }
             _ => out.push((base, total, false)),
         }
     }
     out
 }
+
+/// Largest integer spread folded into rational factors (beyond it the products would be
+/// enormous and tell a reader nothing).
+const MAX_FOLD: i64 = 1000;
 
 impl Expr {
     pub fn zero() -> Expr {
