@@ -481,3 +481,100 @@ fn analysis_sections_of_every_example() {
         telescope::render::analysis_text(&a)
     );
 }
+
+fn telescope_run(args: &[&str]) -> std::process::Output {
+    Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(args)
+        .output()
+        .expect("binary runs")
+}
+
+#[test]
+fn table_normalize_through_the_binary_and_its_refusals() {
+    // Geometric p = 1/4 from k = 1: a(1) = p = 1/4 exactly (scipy.stats.geom pmf(1) = p).
+    let o = telescope_run(&[
+        "table",
+        "a(k)/a(k-1) = 3/4 for k >= 2",
+        "--k",
+        "1..3",
+        "--normalize",
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let v: Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(
+        v["normalization"]["base_value"],
+        "0.250000000000000000000000000000"
+    );
+    assert_eq!(v["normalization"]["total_error_bound"], "0");
+    assert_eq!(v["rows"][0]["direct"], "0.250000000000000000000000000000");
+    let text = telescope_run(&[
+        "table",
+        "a(k)/a(k-1) = 3/4 for k >= 2",
+        "--k",
+        "1..3",
+        "--normalize",
+    ]);
+    assert!(String::from_utf8_lossy(&text.stdout).contains("# normalised: a(b) = 0.25"));
+    // A divergent total cannot be normalised: a clear message, exit code 2, no panic.
+    let o = telescope_run(&[
+        "table",
+        "a(k)/a(k-1) = (k+1)/k for k >= 1",
+        "--k",
+        "0..3",
+        "--normalize",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("the total diverges"));
+    // --normalize and --base exclude each other; absurd --digits / --terms are refused.
+    let o = telescope_run(&[
+        "table",
+        "a(k)/a(k-1) = 1/2",
+        "--k",
+        "1..3",
+        "--normalize",
+        "--base",
+        "2",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    for bad in [["--digits", "0"], ["--terms", "99"]] {
+        let o = telescope_run(&["solve", "a(k)/a(k-1) = 1/2", bad[0], bad[1]]);
+        assert_eq!(o.status.code(), Some(2), "{bad:?}");
+    }
+}
+
+#[test]
+fn solve_text_and_latex_carry_the_sections() {
+    let o = telescope_run(&[
+        "solve",
+        "a(k)/a(k-1) = lambda/k for k >= 1",
+        "--param",
+        "lambda=7/2",
+        "--normalize",
+    ]);
+    assert!(o.status.success());
+    let out = String::from_utf8_lossy(&o.stdout);
+    for section in ["tail law", "total ", "mean ", "variance "] {
+        assert!(out.contains(section), "{section}: {out}");
+    }
+    // exp(−7/2) = 0.0301973834223185007397862923636 (reference file: Poisson pmf(0) at 40 digits)
+    assert!(out.contains("normalised a(0) = exp(−λ)"), "{out}");
+    assert!(
+        out.contains("normalised a(0) = 0.0301973834223185007397862923636"),
+        "{out}"
+    );
+    let o = telescope_run(&[
+        "solve",
+        "a(k)/a(k-1) = lambda/k for k >= 1",
+        "--format",
+        "latex",
+    ]);
+    let out = String::from_utf8_lossy(&o.stdout);
+    assert!(out.contains("\\sim") && out.contains("\\exp"), "{out}");
+    assert_eq!(out.matches('{').count(), out.matches('}').count(), "{out}");
+    assert!(
+        out.is_ascii() || !out.contains('Σ'),
+        "LaTeX must not need Unicode: {out}"
+    );
+}

@@ -303,13 +303,14 @@ fn requirement_text(r: &Requirement) -> String {
     }
 }
 
-fn number_text(n: &NumberReport) -> String {
+fn number_text(n: &NumberReport, note: &str) -> String {
     let mut out = n.value.clone();
     match &n.exact {
         Some(q) if *q != n.value => out += &format!(" = {q} exactly"),
         Some(_) => out += " exactly",
         None => out += &format!(" (error ≤ {})", n.error_bound),
     }
+    out += note;
     out += &format!("; {}", n.method);
     if let Some(check) = &n.check {
         out += &format!("; numeric sum agrees to {check}");
@@ -459,7 +460,10 @@ pub fn analysis_text(a: &Analysis) -> String {
     }
     out += &format!("  total is   {}\n", finiteness_word(&norm.finiteness));
     if let Some(v) = &norm.value {
-        out += &format!("  value      {} (with {a_b} = 1)\n", number_text(v));
+        out += &format!(
+            "  value      {}\n",
+            number_text(v, &format!(" with {a_b} = 1"))
+        );
     }
     if let Some(note) = &norm.numeric_note {
         out += &format!("  numeric    no value: {note}\n");
@@ -469,7 +473,7 @@ pub fn analysis_text(a: &Analysis) -> String {
             out += &format!("  normalised {a_b} = {}\n", text::write(&expr_node(e)));
         }
         if let Some(n) = number {
-            out += &format!("  normalised {a_b} = {}\n", number_text(n));
+            out += &format!("  normalised {a_b} = {}\n", number_text(n, ""));
         }
     }
     out += &moment_text("mean", &a.mean);
@@ -488,7 +492,7 @@ fn moment_text(name: &str, m: &Moment) -> String {
         out += &format!("  condition  {}\n", requirement_text(r));
     }
     if let Some(v) = &m.value {
-        out += &format!("  value      {}\n", number_text(v));
+        out += &format!("  value      {}\n", number_text(v, ""));
     }
     out
 }
