@@ -70,7 +70,7 @@ fn failure(expr: &RatFunc, value: &Q, values: &BTreeMap<String, Q>) -> String {
     if expr.variables().is_empty() {
         format!("it equals {value}")
     } else {
-        format!("it is {value} with {}", settled_by(expr, values))
+        format!("{expr} = {value} with {}", settled_by(expr, values))
     }
 }
 

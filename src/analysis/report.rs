@@ -157,9 +157,20 @@ fn convergence(tail: &Tail, j: i64) -> Option<Inequality> {
         return None;
     }
     let shifted = &tail.power + &RatFunc::from_integer(j);
+    let terms = ["a(k)", "k·a(k)", "k²·a(k)"][j.clamp(0, 2) as usize];
+    // A numeric exponent is decided here, with the reason in words.
+    let decided = |expr: RatFunc, bound: i64| -> Option<Inequality> {
+        match expr.as_constant() {
+            Some(e) if e < Q::from_integer(bound.into()) => None,
+            Some(e) => Some(Inequality::Never(format!(
+                "{terms} ~ C·k^({e}), and {e} is not below {bound}"
+            ))),
+            None => Some(Inequality::Positive(&RatFunc::from_integer(bound) - &expr)),
+        }
+    };
     match tail.rate.as_constant() {
-        Some(r) if r.is_one() => Some(Inequality::Positive(-(&shifted + &RatFunc::one()))),
-        Some(r) if r == -Q::one() => Some(Inequality::Positive(-shifted)),
+        Some(r) if r.is_one() => decided(shifted, -1),
+        Some(r) if r == -Q::one() => decided(shifted, 0),
         Some(r) if r.abs() < Q::one() => None,
         Some(r) => Some(Inequality::Never(format!(
             "|r| = {} > 1: the terms grow geometrically",
@@ -230,8 +241,10 @@ pub fn analyse(
     let mut normalization = Normalization {
         base_index: base.clone(),
         series: series.clone(),
+        // A divergent series has no sum (Gauss's formula would sit on a pole of Γ).
         closed_form: closed
             .as_ref()
+            .filter(|_| !matches!(total_finiteness, Finiteness::Infinite(_)))
             .map(|(t, th)| (Expr::from_term(t.clone()), *th)),
         requirements: requirements[0].clone(),
         finiteness: total_finiteness.clone(),
@@ -240,16 +253,24 @@ pub fn analyse(
         finite_support,
         numeric_note: None,
     };
+    let moment_finiteness = |j: usize| -> Finiteness {
+        match &total_finiteness {
+            Finiteness::Infinite(_) => {
+                Finiteness::Infinite("the total diverges, so there is no distribution".into())
+            }
+            _ => finiteness(&moment_requirements(j)),
+        }
+    };
     let mut mean = Moment {
         closed_form: moments.as_ref().and_then(|m| m.mean.clone()),
         requirements: moment_requirements(1),
-        finiteness: finiteness(&moment_requirements(1)),
+        finiteness: moment_finiteness(1),
         value: None,
     };
     let mut variance = Moment {
         closed_form: moments.as_ref().and_then(|m| m.variance.clone()),
         requirements: moment_requirements(2),
-        finiteness: finiteness(&moment_requirements(2)),
+        finiteness: moment_finiteness(2),
         value: None,
     };
     let mut tail = (!finite_support).then(|| TailReport {

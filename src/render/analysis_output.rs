@@ -295,6 +295,9 @@ fn verdict_strings(v: &Verdict) -> (&'static str, Option<&str>) {
 }
 
 fn requirement_text(r: &Requirement) -> String {
+    if let Inequality::Never(why) = &r.inequality {
+        return format!("{}: no — {why}", r.purpose);
+    }
     let (t, _) = inequality_strings(&r.inequality);
     let (word, why) = verdict_strings(&r.verdict);
     match why {
