@@ -17,6 +17,7 @@ pub mod conditions;
 pub mod hurwitz;
 pub mod hypergeometric;
 pub mod moments;
+mod numbers;
 pub mod numeric_sum;
 pub mod report;
 pub mod sums;
