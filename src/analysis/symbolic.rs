@@ -181,16 +181,18 @@ impl Term {
             if base.is_one() || exponent.is_zero() {
                 continue;
             }
+            // Integer powers fold into the coefficient unless they are too large to write out.
+            let small = |n: &Q| n.abs() <= Q::from_integer(MAX_FOLD.into());
             match exponent.as_constant() {
-                Some(n) if n.is_integer() => {
-                    let n = n.to_integer().to_i32().unwrap_or(i32::MAX);
+                Some(n) if n.is_integer() && small(&n) => {
+                    let n = n.to_integer().to_i32().unwrap_or(0);
                     match base.pow(n) {
                         Some(p) => coefficient = &coefficient * &p,
                         None => return Term::rational(RatFunc::zero()),
                     }
                 }
                 // b^(n + f) = b^n · b^f with 0 < f < 1 for a numeric base: 2^(−1/2) = 2^(1/2)/2.
-                Some(n) if base.as_constant().is_some() => {
+                Some(n) if !n.is_integer() && small(&n) && base.as_constant().is_some() => {
                     let whole = n.floor();
                     let fraction = &n - &whole;
                     let whole = whole.to_integer().to_i32().unwrap_or(0);
