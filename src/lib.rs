@@ -13,6 +13,7 @@
 //! ```
 
 pub mod algebra;
+pub mod analysis;
 pub mod check;
 pub mod closed_form;
 pub mod diagnostic;

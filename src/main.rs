@@ -4,10 +4,11 @@ use std::process::ExitCode;
 
 use clap::{Parser, Subcommand, ValueEnum};
 
+use telescope::analysis::{analyse, AnalysisRequest};
 use telescope::piecewise::build_piecewise_table;
 use telescope::render;
 use telescope::session::{self, Error};
-use telescope::table::{build_table, TableRequest};
+use telescope::table::{build_normalized_table, build_table, TableRequest};
 
 #[derive(Parser)]
 #[command(
@@ -37,6 +38,15 @@ enum Command {
         /// With --format latex: a complete document (pdflatex + amsmath).
         #[arg(long)]
         standalone: bool,
+        /// Correction terms c₁…c_N of the tail law.
+        #[arg(long, default_value_t = 2)]
+        terms: usize,
+        /// Significant digits of the total, mean, variance and prefactor.
+        #[arg(long, default_value_t = 30)]
+        digits: u32,
+        /// Treat the sequence as a probability distribution: a(b) so that the total is 1.
+        #[arg(long)]
+        normalize: bool,
     },
     /// Direct products next to the closed form, with their relative difference.
     Table {
@@ -56,6 +66,9 @@ enum Command {
         /// Check the closed form on every row, not a log-spaced sample.
         #[arg(long)]
         check_all: bool,
+        /// a(b) chosen so that the total over the support is 1 (instead of --base).
+        #[arg(long, conflicts_with = "base")]
+        normalize: bool,
         #[arg(long, value_enum, default_value_t = TableFormat::Text)]
         format: TableFormat,
     },
@@ -101,6 +114,10 @@ enum TableFormat {
 
 /// Largest `--digits` accepted.
 const MAX_DIGITS: u32 = 10_000;
+/// Largest `--terms` accepted (each term is a Bernoulli polynomial of that degree).
+const MAX_TERMS: usize = 40;
+/// Largest `--digits` for `solve`, whose sums get slower with the digits.
+const MAX_SOLVE_DIGITS: u32 = 2_000;
 
 fn run(cli: Cli) -> Result<String, Error> {
     match cli.command {
@@ -112,33 +129,64 @@ fn run(cli: Cli) -> Result<String, Error> {
             format,
             steps,
             standalone,
+            terms,
+            digits,
+            normalize,
         } => {
             if standalone && !matches!(format, SolveFormat::Latex) {
                 return Err(Error::Usage(
                     "--standalone makes a LaTeX document: use it with --format latex".into(),
                 ));
             }
+            if digits == 0 || digits > MAX_SOLVE_DIGITS {
+                return Err(Error::Usage(format!(
+                    "--digits {digits}: choose 1 to {MAX_SOLVE_DIGITS}"
+                )));
+            }
+            if terms > MAX_TERMS {
+                return Err(Error::Usage(format!(
+                    "--terms {terms}: choose 0 to {MAX_TERMS}"
+                )));
+            }
             let layout = render::SolveLayout { steps, standalone };
             let input = session::read_input(&input)?;
             let model = session::load_model(&input)?;
             let values = session::parse_values_for(&model.params, &params)?;
             let solved = session::run_solve_model(&input, &model, &values)?;
-            let sum = if model.is_piecewise() {
-                session::model_sum(&model, &solved)?
+            let to_error = |diagnostic| Error::Input {
+                input: input.clone(),
+                diagnostic,
+            };
+            let (sum, analysis) = if model.is_piecewise() {
+                if normalize {
+                    return Err(Error::Usage(
+                        "--normalize is not available for piecewise models yet; the exact sum over the pieces is printed instead".into(),
+                    ));
+                }
+                (session::model_sum(&model, &solved)?, None)
             } else {
-                None
+                let request = AnalysisRequest {
+                    terms,
+                    digits,
+                    normalize,
+                };
+                let piece = &solved.pieces[0];
+                let analysis =
+                    analyse(&piece.problem, &piece.solution, &request).map_err(to_error)?;
+                (None, Some(analysis))
             };
             let format = match format {
                 SolveFormat::Text => render::SolveFormat::Text,
                 SolveFormat::Latex => render::SolveFormat::Latex,
                 SolveFormat::Json => render::SolveFormat::Json,
             };
+            let report = render::SolveReport {
+                sum: sum.as_ref(),
+                analysis: analysis.as_ref(),
+                digits,
+            };
             Ok(render::solve_report(
-                &model,
-                &solved,
-                sum.as_ref(),
-                format,
-                layout,
+                &model, &solved, &report, format, layout,
             ))
         }
         Command::Table {
@@ -148,6 +196,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             digits,
             base,
             check_all,
+            normalize,
             format,
         } => {
             if digits == 0 || digits > MAX_DIGITS {
@@ -168,6 +217,27 @@ fn run(cli: Cli) -> Result<String, Error> {
                 base_value,
                 check_all,
             };
+            let to_error = |diagnostic| Error::Input {
+                input: input.clone(),
+                diagnostic,
+            };
+            if normalize {
+                if model.is_piecewise() {
+                    return Err(Error::Usage(
+                        "--normalize is not available for piecewise tables yet".into(),
+                    ));
+                }
+                let piece = &solved.pieces[0];
+                let table = build_normalized_table(&piece.problem, &piece.solution, &request)
+                    .map_err(to_error)?;
+                return Ok(match format {
+                    TableFormat::Text => render::analysis_output::normalized_table_text(&table),
+                    TableFormat::Csv => render::table_csv(&table.table),
+                    TableFormat::Json => {
+                        pretty(&render::analysis_output::normalized_table_json(&table))
+                    }
+                });
+            }
             let built = if model.is_piecewise() {
                 build_piecewise_table(&solved, &request, model.pieces[0].span.clone())
             } else {
@@ -177,10 +247,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                     &request,
                 )
             };
-            let table = built.map_err(|diagnostic| Error::Input {
-                input: input.clone(),
-                diagnostic,
-            })?;
+            let table = built.map_err(to_error)?;
             Ok(match format {
                 TableFormat::Text => render::table_text(&table),
                 TableFormat::Csv => render::table_csv(&table),

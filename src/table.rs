@@ -5,6 +5,7 @@ use std::collections::BTreeMap;
 
 use num_bigint::BigInt;
 use num_traits::ToPrimitive;
+use rug::ops::Pow;
 use rug::{Float, Rational};
 
 use crate::algebra::Q;
@@ -321,4 +322,74 @@ mod tests {
         assert!(s.len() > 20 && s.len() <= SAMPLE_ROWS + 2);
         assert_eq!(sample_offsets(5, false), vec![0, 1, 2, 3, 4]);
     }
+}
+
+/// A table of the distribution: a(b) chosen so that the total over the support is 1.
+#[derive(Clone, Debug, PartialEq)]
+pub struct NormalizedTable {
+    pub table: Table,
+    /// a(b) = 1/Σ a(k), to the table's digits.
+    pub base_value: String,
+    /// Bound on the relative error of a(b), hence on |Σ_all a(k) − 1|.
+    pub total_error_bound: String,
+    /// How the total was found (closed form or numeric sum).
+    pub method: String,
+    /// The printed rows added up exactly.
+    pub rows_sum: String,
+    /// Half a unit in the last printed place, summed over the rows: how far `rows_sum` may be
+    /// from the sum of the unrounded values.
+    pub rows_rounding_bound: String,
+}
+
+/// `table --normalize`: the total from the analysis, then the table with a(b) = 1/total.
+pub fn build_normalized_table(
+    problem: &Problem,
+    solution: &Solution,
+    request: &TableRequest,
+) -> Result<NormalizedTable, Diagnostic> {
+    let (base, method) =
+        crate::analysis::normalizing_base_value(problem, solution, request.digits)?;
+    // The binary value is an exact rational: the table's running product starts from it.
+    let base_q: Rational = match &base.exact {
+        Some(q) => q.clone(),
+        None => base.value.to_rational().unwrap_or_default(),
+    };
+    let base_value = Q::new(to_bigint(base_q.numer()), to_bigint(base_q.denom()));
+    let mut normalized_request = request.clone();
+    normalized_request.base_value = base_value;
+    let table = build_table(problem, solution, &normalized_request)?;
+    let mut rows_sum = Rational::new();
+    let mut rounding = Float::new(64);
+    for row in &table.rows {
+        let value = crate::algebra::parse_q(&row.direct).unwrap_or_default();
+        let value = to_rug_rational(&value);
+        // Half a unit in the last of `digits` significant digits: ≤ 5·10^(−digits)·|value|.
+        let ulp = Float::with_val(64, &value).abs()
+            * Float::with_val(64, 10u32).pow(-(request.digits as i32))
+            * 5u32;
+        rounding += ulp;
+        rows_sum += value;
+    }
+    let relative = base.relative_error();
+    Ok(NormalizedTable {
+        base_value: match &base.exact {
+            Some(q) => decimal::rational_to_decimal(q, request.digits),
+            None => decimal::float_to_decimal(&base.value, request.digits),
+        },
+        total_error_bound: if base.exact.is_some() {
+            "0".into()
+        } else {
+            decimal::short(&relative)
+        },
+        method,
+        rows_sum: decimal::rational_to_decimal(&rows_sum, request.digits + 3),
+        rows_rounding_bound: decimal::short(&rounding),
+        table,
+    })
+}
+
+fn to_bigint(n: &rug::Integer) -> BigInt {
+    n.to_string()
+        .parse()
+        .expect("an integer prints as an integer")
 }

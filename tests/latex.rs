@@ -9,7 +9,7 @@ use std::process::Command;
 use telescope::algebra::Q;
 use telescope::model::build_model;
 use telescope::piecewise::solve_model;
-use telescope::render::{self, SolveFormat, SolveLayout};
+use telescope::render::{self, SolveFormat, SolveLayout, SolveReport};
 
 /// Control sequences the output may use: the LaTeX kernel, amsmath, and nothing else.
 const ALLOWED: &[&str] = &[
@@ -138,7 +138,13 @@ fn documents() -> Vec<(String, String, bool, bool)> {
                 BTreeMap::new()
             };
             let solved = solve_model(&model, &values).unwrap();
-            let doc = render::solve_report(&model, &solved, None, SolveFormat::Latex, layout);
+            let doc = render::solve_report(
+                &model,
+                &solved,
+                &SolveReport::default(),
+                SolveFormat::Latex,
+                layout,
+            );
             (
                 name,
                 doc,

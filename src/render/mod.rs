@@ -1,6 +1,7 @@
 //! Output: text (Unicode), LaTeX, JSON and CSV. Renderers never compute mathematics: they lay
 //! out what `solve`, `table` and the analyses produced.
 
+pub mod analysis_output;
 pub mod check_output;
 pub mod derivation;
 pub mod greek;
@@ -13,12 +14,13 @@ pub mod table_output;
 pub mod text;
 pub mod to_node;
 
+pub use analysis_output::{analysis_json, analysis_latex, analysis_text};
 pub use check_output::{check_json, check_text};
 pub use model_output::{
     derivation_json, derivation_latex, derivation_text, has_derivation, piecewise_json,
     piecewise_latex, piecewise_text,
 };
-pub use report::{solve_report, SolveFormat};
+pub use report::{solve_report, SolveFormat, SolveReport};
 pub use solve_output::{
     solve_json, solve_latex, solve_latex_with, solve_text, solve_text_with, SolveLayout,
 };

@@ -2,13 +2,25 @@
 //! equation or rates), then the solution — or the piece-by-piece output of a piecewise model.
 //! The CLI and the tests both go through here, so what the tests check is what users see.
 
+use crate::analysis::Analysis;
 use crate::model::Model;
 use crate::piecewise::{ModelSolution, PiecewiseSum};
 
 use super::{
-    derivation, derivation_json, derivation_latex, derivation_text, has_derivation, piecewise_json,
-    piecewise_latex, piecewise_text, solve_json, solve_latex_with, solve_text_with, SolveLayout,
+    analysis_json, analysis_latex, analysis_text, derivation, derivation_json, derivation_latex,
+    derivation_text, has_derivation, piecewise_json, piecewise_latex, piecewise_text, solve_json,
+    solve_latex_with, solve_text_with, SolveLayout,
 };
+
+/// What was computed beyond the closed form: the exact sum over the pieces of a piecewise
+/// model, or the analysis (tail, total, moments) of a single rule.
+#[derive(Clone, Copy, Default)]
+pub struct SolveReport<'a> {
+    pub sum: Option<&'a PiecewiseSum>,
+    pub analysis: Option<&'a Analysis>,
+    /// The digits the analysis was asked for (reported in JSON).
+    pub digits: u32,
+}
 
 /// The output formats of `solve`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -26,11 +38,14 @@ fn pretty(v: &serde_json::Value) -> String {
 pub fn solve_report(
     model: &Model,
     solved: &ModelSolution,
-    sum: Option<&PiecewiseSum>,
+    report: &SolveReport,
     format: SolveFormat,
     layout: SolveLayout,
 ) -> String {
     let first = &solved.pieces[0].problem;
+    let sum = report.sum;
+    let analysis_text_part = report.analysis.map(analysis_text).unwrap_or_default();
+    let analysis_latex_part = report.analysis.map(analysis_latex).unwrap_or_default();
     let wrap = |body: String| {
         if layout.standalone {
             derivation::standalone(first, &body)
@@ -49,9 +64,12 @@ pub fn solve_report(
     let shown = has_derivation(model);
     match format {
         SolveFormat::Text if shown => {
-            derivation_text(model) + "\n" + &solve_text_with(problem, solution, layout)
+            derivation_text(model)
+                + "\n"
+                + &solve_text_with(problem, solution, layout)
+                + &analysis_text_part
         }
-        SolveFormat::Text => solve_text_with(problem, solution, layout),
+        SolveFormat::Text => solve_text_with(problem, solution, layout) + &analysis_text_part,
         SolveFormat::Latex => {
             let inner = SolveLayout {
                 standalone: false,
@@ -61,11 +79,17 @@ pub fn solve_report(
             if shown {
                 body = derivation_latex(model) + &body;
             }
-            wrap(body)
+            wrap(body + &analysis_latex_part)
         }
         SolveFormat::Json => {
             let mut json = solve_json(problem, solution);
             json["derivation"] = derivation_json(model);
+            if let (Some(analysis), serde_json::Value::Object(fields)) =
+                (report.analysis, &mut json)
+            {
+                fields.insert("digits".into(), report.digits.to_string().into());
+                fields.extend(analysis_json(analysis));
+            }
             pretty(&json)
         }
     }

@@ -1,0 +1,48 @@
+//! Normalisation at 50 digits: Yule–Simon (a power-law tail, Euler–Maclaurin with Hurwitz zeta
+//! values) and a power law with no closed-form sum, 3F2(1, 1, 5/2; 7/3, 11/4; 1). The goal is
+//! "well under a second"; both the numeric sum alone and the whole analysis are measured.
+
+use std::collections::BTreeMap;
+
+use criterion::{criterion_group, criterion_main, Criterion};
+
+use telescope::analysis::{analyse, moment_sums, AnalysisRequest, NumericRule, RisingForm};
+use telescope::model::build_problem;
+use telescope::solve::solve;
+
+fn normalisation(c: &mut Criterion) {
+    let rules = [
+        ("yule_simon_5_2", "a(k)/a(k-1) = (k-1)/(k+5/2) for k >= 2"),
+        (
+            "power_law_3f2",
+            "a(k)/a(k-1) = (k-1)/(k+1/3) * (k+1/2)/(k+3/4) for k >= 2",
+        ),
+    ];
+    for (name, rule) in rules {
+        let problem = build_problem(rule).unwrap();
+        let solution = solve(&problem, &BTreeMap::new()).unwrap();
+        let numeric = NumericRule {
+            form: RisingForm::from_ratio(&problem.ratio),
+            base_index: solution.base_index.clone(),
+            last: None,
+        };
+        c.bench_function(&format!("normalisation/{name}/sum_50_digits"), |b| {
+            b.iter(|| moment_sums(&numeric, 50).unwrap())
+        });
+        let request = AnalysisRequest {
+            terms: 2,
+            digits: 50,
+            normalize: true,
+        };
+        c.bench_function(&format!("normalisation/{name}/analysis_50_digits"), |b| {
+            b.iter(|| analyse(&problem, &solution, &request).unwrap())
+        });
+    }
+}
+
+criterion_group! {
+    name = benches;
+    config = Criterion::default().sample_size(10);
+    targets = normalisation
+}
+criterion_main!(benches);

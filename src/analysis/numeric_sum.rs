@@ -1,0 +1,526 @@
+//! `Σ_{k≥b} k^j a(k)` for j = 0, 1, 2 and numeric parameters, to a requested relative
+//! accuracy with an error bound:
+//!
+//! - finite support: exact rational sums;
+//! - geometric or faster decay: term by term until a proven geometric bound on the rest is
+//!   small enough;
+//! - power-law tails (`r = 1`): the first K terms directly, the rest from the asymptotic
+//!   law `a(k) = C k^θ Σ c_n k^(−n)` summed with Hurwitz zeta values (Euler–Maclaurin), since
+//!   term-by-term summation would need about 10^(D/(γ−1)) terms.
+
+use num_bigint::BigInt;
+use num_traits::{Signed, ToPrimitive, Zero};
+use rug::ops::Pow;
+use rug::{Float, Rational};
+
+use super::bernoulli::bernoulli_numbers_gmp;
+use super::hurwitz::hurwitz_zeta;
+use super::hypergeometric::RisingForm;
+use super::tail::{numeric_corrections_gmp, tail_law};
+use crate::algebra::Q;
+use crate::numeric::{bits_for_digits, to_rug_integer, to_rug_rational, GUARD_BITS};
+
+/// A rule with every parameter substituted.
+#[derive(Clone, Debug)]
+pub struct NumericRule {
+    pub form: RisingForm,
+    pub base_index: BigInt,
+    /// The last index of a finite support.
+    pub last: Option<BigInt>,
+}
+
+/// A value with a bound on its absolute error; `exact` when it is an exact rational.
+#[derive(Clone, Debug)]
+pub struct Bounded {
+    pub value: Float,
+    pub error: Float,
+    pub exact: Option<Rational>,
+}
+
+impl Bounded {
+    pub fn exact(q: Rational, prec: u32) -> Bounded {
+        Bounded {
+            value: Float::with_val(prec, &q),
+            error: Float::new(64),
+            exact: Some(q),
+        }
+    }
+
+    /// |error / value|, +inf for a zero value with a non-zero error.
+    pub fn relative_error(&self) -> Float {
+        if self.error.is_zero() {
+            return Float::new(64);
+        }
+        Float::with_val(64, &self.error / &self.value).abs()
+    }
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub enum SumMethod {
+    ExactFinite { terms: u64 },
+    TermByTerm { terms: u64 },
+    EulerMaclaurin { head: u64, expansion_terms: usize },
+}
+
+impl SumMethod {
+    pub fn describe(&self) -> String {
+        match self {
+            SumMethod::ExactFinite { terms } => format!("exact rational sum of {terms} terms"),
+            SumMethod::TermByTerm { terms } => {
+                format!("{terms} terms summed directly; the rest bounded by a geometric series")
+            }
+            SumMethod::EulerMaclaurin {
+                head,
+                expansion_terms,
+            } => format!(
+                "{head} terms summed directly; the tail from the asymptotic law with {expansion_terms} terms and Hurwitz zeta values (Euler–Maclaurin)"
+            ),
+        }
+    }
+}
+
+/// `Σ k^j a(k)` (a(b) = 1) for j = 0, 1, 2; `None` where the sum diverges.
+#[derive(Clone, Debug)]
+pub struct MomentSums {
+    pub sums: [Option<Bounded>; 3],
+    pub method: SumMethod,
+}
+
+/// Why no numeric value could be given.
+#[derive(Clone, Debug, PartialEq)]
+pub enum SumFailure {
+    /// Every sum diverges.
+    Divergent(String),
+    /// A case the numeric method does not cover.
+    Unsupported(String),
+}
+
+/// Largest finite support summed exactly.
+const MAX_EXACT_TERMS: u64 = 200_000;
+/// Largest number of terms summed one by one.
+const MAX_TERMS: u64 = 1_000_000;
+/// Longest head before an Euler–Maclaurin tail (parameters in the millions need more).
+const MAX_HEAD: u64 = 200_000;
+
+/// The three sums to `digits` significant digits (relative error ≤ 10^(−digits−2) for every
+/// convergent one).
+pub fn moment_sums(rule: &NumericRule, digits: u32) -> Result<MomentSums, SumFailure> {
+    let constant =
+        rule.form.constant.as_constant().ok_or_else(|| {
+            SumFailure::Unsupported("the rule still has symbolic parameters".into())
+        })?;
+    let shifts: Vec<(Q, i32)> = rule
+        .form
+        .factors
+        .iter()
+        .map(|(s, e)| Some((s.as_constant()?, *e)))
+        .collect::<Option<_>>()
+        .ok_or_else(|| SumFailure::Unsupported("the rule still has symbolic parameters".into()))?;
+    let prec = bits_for_digits(digits + 2) + GUARD_BITS;
+    if let Some(last) = &rule.last {
+        return exact_finite(&constant, &shifts, &rule.base_index, last, prec);
+    }
+    let d = rule.form.degree_difference();
+    let abs_c = constant.abs();
+    let one = Q::from_integer(1.into());
+    if d > 0 {
+        return Err(SumFailure::Divergent(format!(
+            "the terms grow like (k/e)^({d}k): R(k) grows without bound"
+        )));
+    }
+    if d == 0 && abs_c > one {
+        return Err(SumFailure::Divergent(format!(
+            "the terms grow geometrically: |r| = {abs_c} > 1"
+        )));
+    }
+    if d < 0 || abs_c < one {
+        // Feasibility only (no reported digit depends on this f64 estimate): the terms peak
+        // where |R(k)| = 1, and a ratio r needs about digits·ln 10 / ln(1/r) more terms.
+        let c = abs_c.to_f64().unwrap_or(f64::MAX);
+        let needed = if d < 0 {
+            c.powf(1.0 / (-d) as f64) + digits as f64 * 10.0
+        } else {
+            digits as f64 * std::f64::consts::LN_10 / -c.ln()
+        };
+        if needed > MAX_TERMS as f64 {
+            return Err(SumFailure::Unsupported(format!(
+                "about {needed:.1e} terms would be needed (at most {MAX_TERMS})"
+            )));
+        }
+        return term_by_term(&constant, &shifts, &rule.base_index, digits, prec);
+    }
+    if constant.is_negative() {
+        return Err(SumFailure::Unsupported(
+            "alternating power-law terms (r = −1) are not summed numerically".into(),
+        ));
+    }
+    euler_maclaurin(rule, &shifts, digits, prec)
+}
+
+/// R(k) exactly.
+fn ratio_at(constant: &Q, shifts: &[(Q, i32)], k: &BigInt) -> Option<Rational> {
+    let mut r = to_rug_rational(constant);
+    let kq = Q::from_integer(k.clone());
+    for (s, e) in shifts {
+        let x = to_rug_rational(&(&kq + s));
+        if x == 0 {
+            if *e < 0 {
+                return None;
+            }
+            return Some(Rational::new());
+        }
+        for _ in 0..e.unsigned_abs() {
+            if *e > 0 {
+                r *= &x;
+            } else {
+                r /= &x;
+            }
+        }
+    }
+    Some(r)
+}
+
+fn unsupported_zero(k: &BigInt) -> SumFailure {
+    SumFailure::Unsupported(format!("the rule divides by zero at k = {k}"))
+}
+
+fn exact_finite(
+    constant: &Q,
+    shifts: &[(Q, i32)],
+    base: &BigInt,
+    last: &BigInt,
+    prec: u32,
+) -> Result<MomentSums, SumFailure> {
+    let terms = (last - base + 1u32).to_u64().unwrap_or(u64::MAX);
+    if terms > MAX_EXACT_TERMS {
+        return Err(SumFailure::Unsupported(format!(
+            "a finite support of {terms} terms is too long to sum exactly"
+        )));
+    }
+    let mut a = Rational::from(1);
+    let mut sums = [Rational::new(), Rational::new(), Rational::new()];
+    let mut k = base.clone();
+    loop {
+        let kr = Rational::from(to_rug_integer(&k));
+        let mut w = Rational::from(1);
+        for s in sums.iter_mut() {
+            *s += Rational::from(&a * &w);
+            w *= &kr;
+        }
+        if k == *last {
+            break;
+        }
+        k += 1;
+        let r = ratio_at(constant, shifts, &k).ok_or_else(|| unsupported_zero(&k))?;
+        a *= r;
+    }
+    let [s0, s1, s2] = sums;
+    Ok(MomentSums {
+        sums: [
+            Some(Bounded::exact(s0, prec)),
+            Some(Bounded::exact(s1, prec)),
+            Some(Bounded::exact(s2, prec)),
+        ],
+        method: SumMethod::ExactFinite { terms },
+    })
+}
+
+/// Running sums of k^j a(k) at `prec` bits with the worst-case rounding count.
+struct Head {
+    a: Float,
+    k: BigInt,
+    sums: [Float; 3],
+    abs_sums: [Float; 3],
+    steps: u64,
+}
+
+impl Head {
+    fn new(base: &BigInt, prec: u32) -> Head {
+        let mut head = Head {
+            a: Float::with_val(prec, 1),
+            k: base.clone(),
+            sums: [Float::new(prec), Float::new(prec), Float::new(prec)],
+            abs_sums: [Float::new(64), Float::new(64), Float::new(64)],
+            steps: 0,
+        };
+        head.add_current();
+        head
+    }
+
+    fn add_current(&mut self) {
+        let kf = Float::with_val(self.a.prec(), to_rug_integer(&self.k));
+        let mut term = self.a.clone();
+        for j in 0..3 {
+            self.abs_sums[j] += Float::with_val(64, term.abs_ref());
+            self.sums[j] += &term;
+            term *= &kf;
+        }
+    }
+
+    fn step(&mut self, constant: &Q, shifts: &[(Q, i32)]) -> Result<(), SumFailure> {
+        self.k += 1;
+        let r = ratio_at(constant, shifts, &self.k).ok_or_else(|| unsupported_zero(&self.k))?;
+        self.a *= Float::with_val(self.a.prec(), &r);
+        self.steps += 1;
+        self.add_current();
+        Ok(())
+    }
+
+    /// Bound on the rounding error of sums[j]: each term carries ≤ 2n + 3 roundings (two per
+    /// step of the running product, one per power of k) and the summation ≤ n more, all of
+    /// relative size 2^(1−p), each against at most Σ|terms| (Higham, *Accuracy and Stability
+    /// of Numerical Algorithms*, Lemma 3.1 and §4.2), with the 1.01 of Lemma 3.1.
+    fn rounding_error(&self, j: usize) -> Float {
+        let n = self.steps + 1;
+        let u = Float::with_val(64, Float::i_exp(1, 1 - self.a.prec() as i32));
+        Float::with_val(64, &self.abs_sums[j] * &u) * ((3 * n + 4) as f64 * 1.01)
+    }
+}
+
+fn term_by_term(
+    constant: &Q,
+    shifts: &[(Q, i32)],
+    base: &BigInt,
+    digits: u32,
+    prec: u32,
+) -> Result<MomentSums, SumFailure> {
+    let target = Float::with_val(64, Float::i_exp(1, -(bits_for_digits(digits + 3) as i32)));
+    // Beyond this k every factor keeps its sign and the bound U(k) decreases.
+    let max_shift = shifts
+        .iter()
+        .map(|(s, _)| s.abs())
+        .max()
+        .unwrap_or_else(Q::zero);
+    let start: BigInt = (max_shift.to_integer() + BigInt::from(2)).max(BigInt::from(1));
+    let abs_c = to_rug_rational(&constant.abs());
+    let mut head = Head::new(base, prec);
+    loop {
+        if head.steps > MAX_TERMS {
+            return Err(SumFailure::Unsupported(format!(
+                "the terms decay too slowly to sum {MAX_TERMS} of them"
+            )));
+        }
+        if head.k >= start {
+            // sup_{m>k} |R(m)| ≤ U(k+1) = |c| Π_{e>0}(k+1+|α|)^e / Π_{e<0}(k+1−|α|)^|e|,
+            // decreasing in k when deg num ≤ deg den (pair each numerator factor with a
+            // denominator factor; common practice bound for hypergeometric terms).
+            let next = to_rug_integer(&(&head.k + 1));
+            let mut u = abs_c.clone();
+            for (s, e) in shifts {
+                let s = to_rug_rational(&s.abs());
+                for _ in 0..e.unsigned_abs() {
+                    if *e > 0 {
+                        u *= Rational::from(&next + &s);
+                    } else {
+                        u /= Rational::from(&next - &s);
+                    }
+                }
+            }
+            let k_now = to_rug_integer(&head.k);
+            let mut done = true;
+            let mut bounds = [Float::new(64), Float::new(64), Float::new(64)];
+            for (j, bound) in bounds.iter_mut().enumerate() {
+                // weight ratio ((m)/(m−1))^j ≤ ((k+1)/k)^j for m > k
+                let w = Rational::from((next.clone(), k_now.clone()));
+                let mut rho = u.clone();
+                for _ in 0..j {
+                    rho *= &w;
+                }
+                if rho >= 1 {
+                    done = false;
+                    break;
+                }
+                let last_term = Float::with_val(64, head.a.abs_ref())
+                    * Float::with_val(64, &k_now).pow(j as u32);
+                let tail = Float::with_val(64, &rho / (1 - rho.clone()));
+                *bound = last_term * tail * 1.01f64;
+                let scale = Float::with_val(64, head.sums[j].abs_ref());
+                if *bound > Float::with_val(64, &scale * &target) {
+                    done = false;
+                }
+            }
+            if done {
+                let sums = [0, 1, 2].map(|j| {
+                    Some(Bounded {
+                        value: head.sums[j].clone(),
+                        error: Float::with_val(64, &bounds[j] + &head.rounding_error(j)),
+                        exact: None,
+                    })
+                });
+                return Ok(MomentSums {
+                    sums,
+                    method: SumMethod::TermByTerm {
+                        terms: head.steps + 1,
+                    },
+                });
+            }
+        }
+        head.step(constant, shifts)?;
+    }
+}
+
+fn euler_maclaurin(
+    rule: &NumericRule,
+    shifts: &[(Q, i32)],
+    digits: u32,
+    prec: u32,
+) -> Result<MomentSums, SumFailure> {
+    let law = tail_law(&rule.form, &rule.base_index, 0);
+    let theta = law
+        .power
+        .as_constant()
+        .ok_or_else(|| SumFailure::Unsupported("symbolic power".into()))?;
+    let minus_one = Q::from_integer((-1).into());
+    if theta >= minus_one {
+        return Err(SumFailure::Divergent(format!(
+            "a(k) ~ C·k^({theta}) with exponent ≥ −1: the total diverges"
+        )));
+    }
+    let max_shift = shifts
+        .iter()
+        .map(|(s, _)| s.abs())
+        .max()
+        .unwrap_or_else(Q::zero)
+        .ceil()
+        .to_integer()
+        .to_u64()
+        .unwrap_or(u64::MAX / 16);
+    // A head long enough that the asymptotic series reaches the target in a few dozen terms:
+    // its terms shrink roughly like n/(2πK) (common practice sizing).
+    let mut head_len = (4 * digits as u64 + 64).max(8 * max_shift + 32);
+    let constant = constant_of(rule);
+    let target = Float::with_val(64, Float::i_exp(1, -(bits_for_digits(digits + 3) as i32)));
+    let c_value = law
+        .prefactor_term
+        .to_float(&Default::default(), prec + 32)
+        .ok_or_else(|| SumFailure::Unsupported("the prefactor has a pole".into()))?;
+    // Terms shrink like n/(2πK) with K ≈ 4·digits: about digits/2.5 of them reach the target.
+    let max_terms = (digits as usize / 2 + 24).min(600);
+    let corrections = numeric_corrections_gmp(&rule.form, &Default::default(), max_terms)
+        .ok_or_else(|| SumFailure::Unsupported("symbolic shifts".into()))?;
+    // x^(−s) with s up to max_terms: each Euler–Maclaurin term gains ≥ (2πK/(s+2i))², so
+    // this many Bernoulli numbers always suffice (common practice sizing).
+    let bernoulli = bernoulli_numbers_gmp(2 * max_terms + 80);
+    for _attempt in 0..6 {
+        if head_len > MAX_HEAD {
+            return Err(SumFailure::Unsupported(format!(
+                "the asymptotic law needs more than {MAX_HEAD} direct terms first (parameters this large)"
+            )));
+        }
+        let first_tail = &rule.base_index + BigInt::from(head_len);
+        let mut head = Head::new(&rule.base_index, prec);
+        while head.k < &first_tail - 1 {
+            head.step(&constant, shifts)?;
+        }
+        let big_k = first_tail
+            .to_u64()
+            .ok_or_else(|| SumFailure::Unsupported("index too large".into()))?;
+        let mut sums: [Option<Bounded>; 3] = [None, None, None];
+        let mut used_terms = 0usize;
+        let mut ok = true;
+        for (j, slot) in sums.iter_mut().enumerate() {
+            let jq = Q::from_integer((j as i64).into());
+            if &theta + &jq >= minus_one {
+                continue; // Σ k^j a(k) diverges
+            }
+            match tail_sum(
+                &corrections,
+                &theta,
+                &jq,
+                big_k,
+                &c_value,
+                prec,
+                &bernoulli,
+                &target,
+                &head.sums[j],
+            ) {
+                Some((value, error, terms)) => {
+                    used_terms = used_terms.max(terms);
+                    let total = Float::with_val(prec, &head.sums[j] + &value);
+                    let error = Float::with_val(64, &error + &head.rounding_error(j));
+                    *slot = Some(Bounded {
+                        value: total,
+                        error,
+                        exact: None,
+                    });
+                }
+                None => {
+                    ok = false;
+                    break;
+                }
+            }
+        }
+        if ok {
+            return Ok(MomentSums {
+                sums,
+                method: SumMethod::EulerMaclaurin {
+                    head: head_len,
+                    expansion_terms: used_terms,
+                },
+            });
+        }
+        head_len *= 2;
+    }
+    Err(SumFailure::Unsupported(
+        "the asymptotic series did not reach the requested accuracy".into(),
+    ))
+}
+
+fn constant_of(rule: &NumericRule) -> Q {
+    rule.form.constant.as_constant().unwrap_or_else(Q::zero)
+}
+
+/// `Σ_{k≥K} k^j C k^θ Σ_n c_n k^(−n) = C Σ_n c_n ζ(n − θ − j, K)` with its error bound and the
+/// number of expansion terms used; `None` when the series stops shrinking first.
+#[allow(clippy::too_many_arguments)]
+fn tail_sum(
+    corrections: &[Rational],
+    theta: &Q,
+    j: &Q,
+    big_k: u64,
+    c_value: &Float,
+    prec: u32,
+    bernoulli: &[Rational],
+    target: &Float,
+    head_sum: &Float,
+) -> Option<(Float, Float, usize)> {
+    let mut total = Float::new(prec);
+    let mut error = Float::new(64);
+    let zeta_target = Float::with_val(64, target / 16u32);
+    let scale = Float::with_val(64, head_sum.abs_ref());
+    let mut previous: Option<Float> = None;
+    for (n, c) in corrections.iter().enumerate() {
+        let s = Q::from_integer((n as i64).into()) - theta - j;
+        let c_is_zero = *c == 0;
+        let (zeta, zeta_err) = hurwitz_zeta(&s, big_k, prec, bernoulli, &zeta_target)?;
+        let c_f = Float::with_val(prec, c);
+        let term = Float::with_val(prec, &c_f * &zeta) * c_value;
+        let magnitude = Float::with_val(64, term.abs_ref());
+        // The first omitted term, doubled, bounds the truncation (asymptotic series of a
+        // Gamma quotient with real parameters beyond its largest shift, common practice).
+        if c_is_zero && n > 0 {
+            // An exact expansion (e.g. a rational a(k)) contributes nothing more.
+            if corrections[n..].iter().all(|c| *c == 0) {
+                return Some((total, error, n));
+            }
+        }
+        if n > 0 && Float::with_val(64, &magnitude * 2u32) <= Float::with_val(64, &scale * target) {
+            error += Float::with_val(64, &magnitude * 2u32);
+            return Some((total, error, n));
+        }
+        if let Some(p) = &previous {
+            if magnitude > *p && !c_is_zero {
+                return None;
+            }
+        }
+        previous = if c.is_zero() {
+            previous
+        } else {
+            Some(magnitude)
+        };
+        total += &term;
+        let rel = Float::with_val(64, &c_f * c_value).abs() * zeta_err;
+        error += rel;
+    }
+    None
+}

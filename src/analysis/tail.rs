@@ -1,0 +1,309 @@
+//! Large-`k` behaviour: `a(k) ~ C · r^k · (k/e)^(d·k) · k^θ · (1 + c₁/k + c₂/k² + …)`.
+//!
+//! From the rising form `R(k) = r · Π (k + α_i)^e_i`, telescoping gives
+//! `a(k) = a(b) · r^(k−b) · Π [Γ(k + h_i)/Γ(b + h_i)]^e_i` with `h_i = 1 + α_i`, and
+//! Stirling's series with Bernoulli polynomials (DLMF 5.11.8),
+//! `ln Γ(k+h) ~ (k+h−½) ln k − k + ½ ln 2π + Σ_{m≥1} (−1)^(m+1) B_{m+1}(h) / (m(m+1) k^m)`,
+//! summed with the weights `e_i` gives every piece: `d = Σ e_i` (factorial growth when the
+//! degrees differ), `θ = Σ e_i (h_i − ½)`, `C = r^(−b) (2π)^(d/2) Π Γ(b+h_i)^(−e_i)`, and the
+//! corrections `c_n` from the exponential of `Σ δ_m k^(−m)` — for `d = 0` this is the
+//! expansion of a Gamma quotient, DLMF 5.11.13.
+
+use std::collections::BTreeMap;
+
+use num_bigint::BigInt;
+use num_traits::One;
+
+use super::bernoulli::{bernoulli_numbers, bernoulli_polynomial, bernoulli_polynomial_at};
+use super::hypergeometric::RisingForm;
+use super::symbolic::{Atom, RatKey, Term};
+use crate::algebra::{RatFunc, Q};
+use crate::closed_form::{Affine, Factor, Product};
+
+/// The asymptotic law of the sequence (with `a(b) = 1`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Tail {
+    /// r
+    pub rate: RatFunc,
+    /// d = deg(numerator) − deg(denominator) of R(k): the factor (k/e)^(d·k).
+    pub factorial_power: i64,
+    /// θ
+    pub power: RatFunc,
+    /// C, a product of Gamma values, powers and √π.
+    pub prefactor: Product,
+    /// The same prefactor as an exact term (for arithmetic).
+    pub prefactor_term: Term,
+    /// c₁ … c_N
+    pub corrections: Vec<RatFunc>,
+}
+
+impl Tail {
+    /// γ = −θ, the power-law tail exponent, when the law is a pure power (r = 1, d = 0).
+    pub fn tail_exponent(&self) -> Option<RatFunc> {
+        (self.factorial_power == 0 && self.rate.is_one()).then(|| -self.power.clone())
+    }
+}
+
+/// The shifts `h_i = 1 + α_i` with their exponents.
+fn gamma_shifts(form: &RisingForm) -> Vec<(RatFunc, i32)> {
+    form.factors
+        .iter()
+        .map(|(alpha, e)| (alpha + &RatFunc::one(), *e))
+        .collect()
+}
+
+/// `δ_m = Σ_i e_i (−1)^(m+1) B_{m+1}(h_i) / (m(m+1))` for m = 1..=count (DLMF 5.11.8).
+pub fn log_coefficients(form: &RisingForm, count: usize) -> Vec<RatFunc> {
+    let numbers = bernoulli_numbers(count + 1);
+    let shifts = gamma_shifts(form);
+    (1..=count)
+        .map(|m| {
+            let mut sum = RatFunc::zero();
+            for (h, e) in &shifts {
+                let b = bernoulli_polynomial(m + 1, h, &numbers);
+                sum = &sum + &(&b * &RatFunc::from_integer(*e as i64));
+            }
+            let sign = if m % 2 == 1 { 1 } else { -1 };
+            let denominator = Q::from_integer(BigInt::from((m * (m + 1)) as u64));
+            &sum * &RatFunc::constant(Q::from_integer(BigInt::from(sign)) / denominator)
+        })
+        .collect()
+}
+
+/// The coefficients of `exp(Σ_{m≥1} δ_m x^m) = Σ c_n x^n`, from `n c_n = Σ_{m=1}^n m δ_m c_{n−m}`
+/// (differentiate `E = exp(D)`: `E' = D'E`, common practice for power series).
+pub fn exp_series(deltas: &[RatFunc]) -> Vec<RatFunc> {
+    let mut c = vec![RatFunc::one()];
+    for n in 1..=deltas.len() {
+        let mut sum = RatFunc::zero();
+        for m in 1..=n {
+            let term = &(&deltas[m - 1] * &c[n - m]) * &RatFunc::from_integer(m as i64);
+            sum = &sum + &term;
+        }
+        c.push(&sum * &RatFunc::constant(Q::new(BigInt::one(), BigInt::from(n as u64))));
+    }
+    c
+}
+
+/// The tail law with `terms` correction coefficients.
+pub fn tail_law(form: &RisingForm, base_index: &BigInt, terms: usize) -> Tail {
+    let shifts = gamma_shifts(form);
+    let d = form.degree_difference();
+    let half = RatFunc::constant(Q::new(BigInt::one(), BigInt::from(2)));
+    let mut power = RatFunc::zero();
+    for (h, e) in &shifts {
+        power = &power + &(&(h - &half) * &RatFunc::from_integer(*e as i64));
+    }
+    let b = RatFunc::constant(Q::from_integer(base_index.clone()));
+    // C = r^(−b) · (2π)^(d/2) · Π Γ(b + h_i)^(−e_i)
+    let mut atoms: Vec<(Atom, i32)> = shifts
+        .iter()
+        .map(|(h, e)| (Atom::Gamma(RatKey(&b + h)), -e))
+        .collect();
+    if d != 0 {
+        atoms.push((
+            Atom::Power {
+                base: RatKey(RatFunc::from_integer(2)),
+                exponent: RatKey(RatFunc::constant(Q::new(BigInt::from(d), BigInt::from(2)))),
+            },
+            1,
+        ));
+        atoms.push((Atom::SqrtPi, d as i32));
+    }
+    let exponent = -base_index.clone();
+    let coefficient = form
+        .constant
+        .pow(i32::try_from(exponent).unwrap_or(0))
+        .unwrap_or_else(RatFunc::one);
+    let prefactor_term = Term { coefficient, atoms }.normalized();
+    let deltas = log_coefficients(form, terms);
+    let mut corrections = exp_series(&deltas);
+    corrections.remove(0);
+    Tail {
+        rate: form.constant.clone(),
+        factorial_power: d,
+        power,
+        prefactor: term_to_product(&prefactor_term),
+        prefactor_term,
+        corrections,
+    }
+}
+
+/// A term of Gamma values, powers and √π as a closed-form product (exp and ln have no
+/// closed-form factor; they do not occur in a prefactor).
+pub fn term_to_product(t: &Term) -> Product {
+    let mut factors = Vec::new();
+    for (atom, e) in &t.atoms {
+        match atom {
+            Atom::Gamma(RatKey(x)) => factors.push(Factor::Gamma {
+                arg: Affine::constant(x.clone()),
+                exponent: *e,
+            }),
+            Atom::Power { base, exponent } => factors.push(Factor::Power {
+                base: base.0.clone(),
+                exponent: Affine::constant(&exponent.0 * &RatFunc::from_integer(*e as i64)),
+            }),
+            Atom::SqrtPi => factors.push(Factor::SqrtPi { half_exponent: *e }),
+            Atom::Exp(_) | Atom::Log(_) => {}
+        }
+    }
+    Product {
+        coefficient: t.coefficient.clone(),
+        factors,
+    }
+}
+
+/// The corrections c₀ = 1, c₁ … c_count as exact rationals when every parameter has a value:
+/// the same recurrences as [`log_coefficients`] and [`exp_series`] in plain rationals, fast
+/// enough for the few dozen terms an Euler–Maclaurin tail needs.
+pub fn numeric_corrections(
+    form: &RisingForm,
+    values: &BTreeMap<String, Q>,
+    count: usize,
+) -> Option<Vec<Q>> {
+    let form = form.substituted(values);
+    let shifts: Vec<(Q, i32)> = form
+        .factors
+        .iter()
+        .map(|(alpha, e)| Some((alpha.as_constant()? + Q::one(), *e)))
+        .collect::<Option<_>>()?;
+    let numbers = bernoulli_numbers(count + 1);
+    let deltas: Vec<Q> = (1..=count)
+        .map(|m| {
+            let mut sum = Q::from_integer(BigInt::from(0));
+            for (h, e) in &shifts {
+                sum +=
+                    bernoulli_polynomial_at(m + 1, h, &numbers) * Q::from_integer(BigInt::from(*e));
+            }
+            let sign = if m % 2 == 1 { 1 } else { -1 };
+            sum * Q::new(BigInt::from(sign), BigInt::from((m * (m + 1)) as u64))
+        })
+        .collect();
+    let mut c = vec![Q::one()];
+    for n in 1..=count {
+        let mut sum = Q::from_integer(BigInt::from(0));
+        for m in 1..=n {
+            sum += &deltas[m - 1] * &c[n - m] * Q::from_integer(BigInt::from(m as u64));
+        }
+        c.push(sum / Q::from_integer(BigInt::from(n as u64)));
+    }
+    Some(c)
+}
+
+/// [`numeric_corrections`] in GMP rationals, for the long lists an Euler–Maclaurin tail
+/// needs (the same recurrences; num-bigint's gcds made this the slowest step).
+pub fn numeric_corrections_gmp(
+    form: &RisingForm,
+    values: &BTreeMap<String, Q>,
+    count: usize,
+) -> Option<Vec<rug::Rational>> {
+    use crate::numeric::to_rug_rational;
+    use rug::Rational;
+    let form = form.substituted(values);
+    let shifts: Vec<(Rational, i32)> = form
+        .factors
+        .iter()
+        .map(|(alpha, e)| Some((to_rug_rational(&(alpha.as_constant()? + Q::one())), *e)))
+        .collect::<Option<_>>()?;
+    let numbers = super::bernoulli::bernoulli_numbers_gmp(count + 1);
+    // B_n(h) = Σ_j C(n, j) B_j h^(n−j) (DLMF 24.2.5), by Horner's scheme
+    let poly_at = |n: usize, h: &Rational| -> Rational {
+        let mut binom = rug::Integer::from(1);
+        let mut acc = Rational::new();
+        for (j, bj) in numbers.iter().enumerate().take(n + 1) {
+            acc *= h;
+            acc += Rational::from(bj * &binom);
+            binom *= (n - j) as u64;
+            binom /= (j + 1) as u64;
+        }
+        acc
+    };
+    let deltas: Vec<Rational> = (1..=count)
+        .map(|m| {
+            let mut sum = Rational::new();
+            for (h, e) in &shifts {
+                sum += poly_at(m + 1, h) * *e;
+            }
+            let sign: i64 = if m % 2 == 1 { 1 } else { -1 };
+            sum * Rational::from((sign, (m * (m + 1)) as u64))
+        })
+        .collect();
+    let mut c = vec![Rational::from(1)];
+    for n in 1..=count {
+        let mut sum = Rational::new();
+        for m in 1..=n {
+            sum += Rational::from(&deltas[m - 1] * &c[n - m]) * m as u64;
+        }
+        c.push(sum / n as u64);
+    }
+    Some(c)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::q;
+    use crate::model::build_problem;
+
+    fn law(rule: &str, terms: usize) -> Tail {
+        let problem = build_problem(rule).unwrap();
+        let form = RisingForm::from_ratio(&problem.ratio);
+        tail_law(&form, &problem.base_index(), terms)
+    }
+
+    #[test]
+    fn yule_simon_tail() {
+        // a(k) ~ Γ(α+2) k^(−(α+1)) (reference file, yule_simon tail, scipy.stats.yulesimon)
+        let t = law("a(k)/a(k-1) = (k-1)/(k+alpha) for k >= 2", 2);
+        let alpha = RatFunc::var("alpha");
+        assert!(t.rate.is_one());
+        assert_eq!(t.factorial_power, 0);
+        assert_eq!(t.power, -(&alpha + &RatFunc::one()));
+        assert_eq!(t.tail_exponent(), Some(&alpha + &RatFunc::one()));
+        assert_eq!(
+            t.prefactor.factors,
+            vec![Factor::Gamma {
+                arg: Affine::constant(&alpha + &RatFunc::from_integer(2)),
+                exponent: 1
+            }]
+        );
+        // c₁ = −α(α+1)/2: the first coefficient of DLMF 5.11.13, (a−b)(a+b−1)/2, for
+        // Γ(k+a)/Γ(k+b) with a = 0, b = α+1
+        let c1 = &(&alpha * &(&alpha + &RatFunc::one())) * &RatFunc::constant(q(-1, 2));
+        assert_eq!(t.corrections[0], c1);
+    }
+
+    #[test]
+    fn poisson_tail_is_stirling() {
+        // λ^k/k! ~ (2π)^(−1/2) λ^k (k/e)^(−k) k^(−1/2) (1 − 1/(12k) + 1/(288k²) …)
+        // (Stirling's series, DLMF 5.11.3 / 5.11.8 with h = 1)
+        let t = law("a(k)/a(k-1) = lambda/k for k >= 1", 2);
+        assert_eq!(t.factorial_power, -1);
+        assert_eq!(t.power, RatFunc::constant(q(-1, 2)));
+        assert_eq!(t.corrections[0], RatFunc::constant(q(-1, 12)));
+        assert_eq!(t.corrections[1], RatFunc::constant(q(1, 288)));
+    }
+
+    #[test]
+    fn gmp_and_exact_corrections_agree() {
+        let problem =
+            build_problem("a(k)/a(k-1) = (k-1)/(k+1/3) * (k+1/2)/(k+3/4) for k >= 2").unwrap();
+        let form = RisingForm::from_ratio(&problem.ratio);
+        let exact = numeric_corrections(&form, &BTreeMap::new(), 8).unwrap();
+        let gmp = numeric_corrections_gmp(&form, &BTreeMap::new(), 8).unwrap();
+        for (a, b) in exact.iter().zip(&gmp) {
+            assert_eq!(crate::numeric::to_rug_rational(a), *b);
+        }
+    }
+
+    #[test]
+    fn negative_binomial_tail() {
+        // Γ(k+n)/(Γ(k+1)Γ(n)) (1−p)^k ~ (1/Γ(n)) (1−p)^k k^(n−1) (reference file, nbinom)
+        let t = law("a(k)/a(k-1) = (k+n-1)*(1-p)/k for k >= 1", 1);
+        let n = RatFunc::var("n");
+        assert_eq!(t.power, &n - &RatFunc::one());
+        assert_eq!(t.rate, &RatFunc::one() - &RatFunc::var("p"));
+        assert_eq!(t.prefactor.factors.len(), 1);
+        assert_eq!(t.tail_exponent(), None);
+    }
+}
