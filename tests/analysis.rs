@@ -3,6 +3,9 @@
 //! (SciPy 1.17.1)"; values by mpmath at 60 digits, 40 printed) and independent mpmath values
 //! written here with their provenance.
 
+mod common;
+use common::{params_of, reference_cases as cases};
+
 use std::collections::BTreeMap;
 use std::process::Command;
 
@@ -18,27 +21,6 @@ use telescope::analysis::{
 use telescope::model::build_problem;
 use telescope::solve::{solve, SupportEnd};
 use telescope::table::{build_normalized_table, TableRequest};
-
-fn cases() -> Vec<Value> {
-    let text = std::fs::read_to_string(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/distributions.json"
-    ))
-    .expect("reference file present");
-    let v: Value = serde_json::from_str(&text).unwrap();
-    v["cases"].as_array().unwrap().clone()
-}
-
-fn params_of(case: &Value) -> BTreeMap<String, Q> {
-    case["params"]
-        .as_object()
-        .map(|m| {
-            m.iter()
-                .map(|(k, v)| (k.clone(), parse_q(v.as_str().unwrap()).unwrap()))
-                .collect()
-        })
-        .unwrap_or_default()
-}
 
 fn q(s: &str) -> Q {
     parse_q(s).unwrap_or_else(|| panic!("not a number: {s}"))

@@ -3,8 +3,10 @@
 //! distributions.json`, each with its `source`) and the example models; exit codes and
 //! snapshots of the JSON output through the binary.
 
+mod common;
+use common::telescope;
+
 use std::collections::BTreeMap;
-use std::process::{Command, Output};
 
 use serde_json::Value;
 
@@ -442,14 +444,6 @@ fn the_examples_claims_are_proved_and_their_slips_found() {
 }
 
 // --- through the binary ---------------------------------------------------------------------
-
-fn telescope(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_telescope"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("binary runs")
-}
 
 #[test]
 fn exit_codes_are_zero_one_and_two() {

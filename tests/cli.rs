@@ -1,14 +1,9 @@
 //! End-to-end behaviour through the `telescope` binary.
 
-use std::process::{Command, Output};
+mod common;
+use common::telescope;
 
-fn telescope(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_telescope"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("binary runs")
-}
+use std::process::{Command, Output};
 
 fn stdout(o: &Output) -> String {
     String::from_utf8_lossy(&o.stdout).into_owned()

@@ -2,11 +2,12 @@
 //! amsmath alone. A structural check always runs; the full compile runs when `pdflatex` is
 //! installed and says so when it is skipped.
 
-use std::collections::BTreeMap;
+mod common;
+use common::{breakpoint_values, examples, telescope};
+
 use std::path::PathBuf;
 use std::process::Command;
 
-use telescope::algebra::Q;
 use telescope::model::build_model;
 use telescope::piecewise::solve_model;
 use telescope::render::{self, SolveFormat, SolveLayout, SolveReport};
@@ -82,22 +83,6 @@ const ALLOWED: &[&str] = &[
 /// Control-symbol escapes that are kernel syntax: `\\`, `\,`, `\{`, `\}`.
 const ALLOWED_SYMBOLS: &[char] = &['\\', ',', '{', '}'];
 
-fn examples() -> Vec<(String, String)> {
-    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/examples");
-    let mut out: Vec<(String, String)> = std::fs::read_dir(dir)
-        .unwrap()
-        .filter_map(|e| e.ok())
-        .map(|e| e.path())
-        .filter(|p| p.extension().is_some_and(|x| x == "rule"))
-        .map(|p| {
-            let name = p.file_stem().unwrap().to_string_lossy().into_owned();
-            (name, std::fs::read_to_string(&p).unwrap())
-        })
-        .collect();
-    out.sort();
-    out
-}
-
 /// Extra rules whose output exercises other notation: Pochhammer symbols, √π, factorials.
 const MORE_RULES: &[(&str, &str)] = &[
     (
@@ -127,16 +112,7 @@ fn documents() -> Vec<(String, String, bool, bool)> {
             // The same path as `telescope solve --format latex --steps --standalone`;
             // piecewise breakpoints (integer parameters) are set to 3.
             let model = build_model(&text).unwrap();
-            let values: BTreeMap<String, Q> = if model.is_piecewise() {
-                model
-                    .params
-                    .iter()
-                    .filter(|p| p.integer)
-                    .map(|p| (p.name.clone(), Q::from_integer(3.into())))
-                    .collect()
-            } else {
-                BTreeMap::new()
-            };
+            let values = breakpoint_values(&model);
             let solved = solve_model(&model, &values).unwrap();
             let doc = render::solve_report(
                 &model,
@@ -289,14 +265,6 @@ fn every_standalone_derivation_compiles_with_pdflatex() {
         assert!(dir.join(format!("{name}.pdf")).is_file(), "{name}: no PDF");
     }
     let _ = std::fs::remove_dir_all(&dir);
-}
-
-fn telescope(args: &[&str]) -> std::process::Output {
-    Command::new(env!("CARGO_BIN_EXE_telescope"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("binary runs")
 }
 
 #[test]

@@ -1,8 +1,10 @@
 //! From the model to the rule: balance equations, birth–death rates, boundary terms and
 //! piecewise rules, checked against the published results they must reproduce.
 
+mod common;
+use common::telescope;
+
 use std::collections::BTreeMap;
-use std::process::Command;
 
 use num_bigint::BigInt;
 use num_traits::{One, Zero};
@@ -327,14 +329,6 @@ fn shape(
         .map(|f| (f.orientation, f.shift.clone(), f.exponent))
         .collect();
     (r.constant.clone(), factors)
-}
-
-fn telescope(args: &[&str]) -> std::process::Output {
-    Command::new(env!("CARGO_BIN_EXE_telescope"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("binary runs")
 }
 
 #[test]

@@ -3,6 +3,9 @@
 //! "scipy.stats.yulesimon (SciPy 1.17.1)", and its values were computed with mpmath at 60
 //! digits). The closed form's a(k)/a(base) must equal pmf(k)/pmf(base) to 30 digits.
 
+mod common;
+use common::{params_of, reference_cases as cases};
+
 use std::collections::BTreeMap;
 
 use num_bigint::BigInt;
@@ -16,16 +19,6 @@ use telescope::solve::{solve, SupportEnd};
 
 const PREC: u32 = 256;
 
-fn cases() -> Vec<Value> {
-    let text = std::fs::read_to_string(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/distributions.json"
-    ))
-    .expect("reference file present");
-    let v: Value = serde_json::from_str(&text).unwrap();
-    v["cases"].as_array().unwrap().clone()
-}
-
 /// ln of a decimal string such as "4.046996887973688531799518708926594961374e-5021643", without
 /// ever forming 10^5021643.
 fn ln_decimal(s: &str) -> Float {
@@ -36,17 +29,6 @@ fn ln_decimal(s: &str) -> Float {
     let m = to_rug_rational(&parse_q(mantissa).unwrap());
     let ln10 = Float::with_val(PREC, 10).ln();
     LogReal::from_rational(&m, PREC).ln_abs + ln10 * Float::with_val(PREC, exponent)
-}
-
-fn params_of(case: &Value) -> BTreeMap<String, Q> {
-    case["params"]
-        .as_object()
-        .map(|m| {
-            m.iter()
-                .map(|(k, v)| (k.clone(), parse_q(v.as_str().unwrap()).unwrap()))
-                .collect()
-        })
-        .unwrap_or_default()
 }
 
 /// Checks one rule text (numeric or symbolic with values) against the case's pmf values.

@@ -4,11 +4,13 @@
 //! wherever both are defined: checked at pseudo-random parameter values inside the declared
 //! ranges and at pseudo-random k in the support, for every example and every reference case.
 
+mod common;
+use common::{breakpoint_values, examples, reference_cases};
+
 use std::collections::BTreeMap;
 
 use num_bigint::BigInt;
 use rug::Rational;
-use serde_json::Value;
 
 use telescope::algebra::{parse_q, Q};
 use telescope::closed_form::{Affine, ClosedForm, Factor};
@@ -57,32 +59,6 @@ impl Points {
             }
         }
     }
-}
-
-fn examples() -> Vec<(String, String)> {
-    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/examples");
-    let mut out: Vec<(String, String)> = std::fs::read_dir(dir)
-        .unwrap()
-        .filter_map(|e| e.ok())
-        .map(|e| e.path())
-        .filter(|p| p.extension().is_some_and(|x| x == "rule"))
-        .map(|p| {
-            let name = p.file_stem().unwrap().to_string_lossy().into_owned();
-            (name, std::fs::read_to_string(&p).unwrap())
-        })
-        .collect();
-    out.sort();
-    out
-}
-
-fn reference_cases() -> Vec<Value> {
-    let text = std::fs::read_to_string(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/distributions.json"
-    ))
-    .unwrap();
-    let v: Value = serde_json::from_str(&text).unwrap();
-    v["cases"].as_array().unwrap().clone()
 }
 
 fn value(
@@ -166,16 +142,7 @@ fn example_pieces() -> Vec<(String, Problem, Solution, BTreeMap<String, Q>)> {
     let mut out = Vec::new();
     for (name, text) in examples() {
         let model = build_model(&text).unwrap();
-        let values: BTreeMap<String, Q> = if model.is_piecewise() {
-            model
-                .params
-                .iter()
-                .filter(|p| p.integer)
-                .map(|p| (p.name.clone(), Q::from_integer(3.into())))
-                .collect()
-        } else {
-            BTreeMap::new()
-        };
+        let values = breakpoint_values(&model);
         let solved = solve_model(&model, &values).unwrap();
         for (i, piece) in solved.pieces.into_iter().enumerate() {
             let label = format!("{name}, piece {}", i + 1);

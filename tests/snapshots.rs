@@ -1,27 +1,14 @@
 //! Snapshots of the rendered output (text, LaTeX, JSON) for every model in `examples/`.
 //! Reviewed like code: a change here is a change users see.
 
+mod common;
+use common::{breakpoint_values, examples};
+
 use std::collections::BTreeMap;
 
 use telescope::model::build_model;
 use telescope::piecewise::solve_model;
 use telescope::render::{self, SolveLayout};
-
-fn examples() -> Vec<(String, String)> {
-    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/examples");
-    let mut out: Vec<(String, String)> = std::fs::read_dir(dir)
-        .unwrap()
-        .filter_map(|e| e.ok())
-        .map(|e| e.path())
-        .filter(|p| p.extension().map(|x| x == "rule").unwrap_or(false))
-        .map(|p| {
-            let name = p.file_stem().unwrap().to_string_lossy().into_owned();
-            (name, std::fs::read_to_string(&p).unwrap())
-        })
-        .collect();
-    out.sort();
-    out
-}
 
 #[test]
 fn every_example_renders_in_every_format() {
@@ -75,17 +62,7 @@ fn every_example_renders_in_every_format() {
 
 /// A piecewise example solved with every integer breakpoint parameter set to 3.
 fn piecewise_snapshots(name: &str, model: &telescope::model::Model) {
-    let values: BTreeMap<String, telescope::algebra::Q> = model
-        .params
-        .iter()
-        .filter(|p| p.integer)
-        .map(|p| {
-            (
-                p.name.clone(),
-                telescope::algebra::Q::from_integer(3.into()),
-            )
-        })
-        .collect();
+    let values = breakpoint_values(model);
     let solved = solve_model(model, &values).unwrap_or_else(|e| panic!("{name}: {e}"));
     insta::assert_snapshot!(
         format!("{name}_text"),
