@@ -163,7 +163,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                         "--normalize is not available for piecewise models yet; the exact sum over the pieces is printed instead".into(),
                     ));
                 }
-                (session::model_sum(&model, &solved)?, None)
+                (session::model_sum(&model, &solved, digits)?, None)
             } else {
                 let request = AnalysisRequest {
                     terms,

@@ -438,3 +438,29 @@ fn a_forward_balance_without_range_keeps_the_default_base_term() {
     let m = model("(k+1) p(k+1) = lambda p(k)   for k >= 0");
     assert_eq!(m.pieces[0].first, RatFunc::one());
 }
+
+/// A piecewise model whose last piece has a power-law tail: the tail part comes from the
+/// analysis of the last piece. Here Σ_{k≥3} a(k)/a(3) = ₂F₁(3, 1; 11/2; 1) = 3 by Gauss's
+/// theorem (DLMF 15.4.20), so the total is 15/8 + (3 − 1)/8 = 17/8.
+#[test]
+fn a_power_law_last_piece_is_summed_by_the_analysis() {
+    let text = "param c integer >= 1\n\
+                a(k)/a(k-1) = 1/2  for 1 <= k <= c\n\
+                a(k)/a(k-1) = (k-1)/(k+3/2)  for k > c\n";
+    let dir = std::env::temp_dir().join("telescope-piecewise-tail.rule");
+    std::fs::write(&dir, text).unwrap();
+    let o = telescope(&[
+        "solve",
+        dir.to_str().unwrap(),
+        "--param",
+        "c=3",
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["sum"]["finite_part"], "15/8");
+    assert_eq!(v["sum"]["tail"], "numeric");
+    assert_eq!(v["sum"]["total"], "2.12500000000000000000000000000");
+    assert_eq!(v["sum"]["tail_part"], "0.250000000000000000000000000000");
+}

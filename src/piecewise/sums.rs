@@ -32,6 +32,14 @@ pub enum TailSum {
     /// Neither geometric nor finite: left to the general summation (Gauss, numeric with an
     /// asymptotic tail), which lives in the analysis layer.
     NotGeometric,
+    /// Summed by the analysis layer: the tail part and the total as decimal strings, with a
+    /// bound on their absolute error and how the last piece's series was summed.
+    Numeric {
+        tail: String,
+        total: String,
+        error_bound: String,
+        method: String,
+    },
 }
 
 impl PiecewiseSum {

@@ -344,6 +344,18 @@ fn tail_words(sum: &PiecewiseSum) -> (String, String) {
     match (&sum.tail, sum.total()) {
         (TailSum::Exact(t), Some(total)) => (t.to_string(), total.to_string()),
         (TailSum::Divergent, _) => ("∞".into(), "∞ (the tail diverges)".into()),
+        (
+            TailSum::Numeric {
+                tail,
+                total,
+                error_bound,
+                method,
+            },
+            _,
+        ) => (
+            tail.clone(),
+            format!("{total} (error ≤ {error_bound}; last piece: {method})"),
+        ),
         _ => (
             "…".into(),
             "not summed here (the last piece is not geometric)".into(),
@@ -357,14 +369,31 @@ fn sum_json(sum: &PiecewiseSum) -> Value {
             json!(t.to_string()),
             json!(sum.total().map(|t| t.to_string())),
         ),
+        TailSum::Numeric { tail, total, .. } => (json!(tail), json!(total)),
         _ => (Value::Null, Value::Null),
     };
     let status = match &sum.tail {
         TailSum::Exact(_) => "exact",
         TailSum::Divergent => "divergent",
         TailSum::NotGeometric => "not_summed",
+        TailSum::Numeric { .. } => "numeric",
     };
-    json!({ "finite_part": sum.finite_part.to_string(), "tail_part": tail, "total": total, "tail": status })
+    let (error_bound, method) = match &sum.tail {
+        TailSum::Numeric {
+            error_bound,
+            method,
+            ..
+        } => (json!(error_bound), json!(method)),
+        _ => (Value::Null, Value::Null),
+    };
+    json!({
+        "finite_part": sum.finite_part.to_string(),
+        "tail_part": tail,
+        "total": total,
+        "tail": status,
+        "error_bound": error_bound,
+        "method": method,
+    })
 }
 
 fn joins_text(model: &Model, solution: &ModelSolution) -> String {
