@@ -9,7 +9,7 @@ use rug::ops::Pow;
 use rug::{Float, Rational};
 
 use crate::algebra::Q;
-use crate::diagnostic::Diagnostic;
+use crate::diagnostic::{Diagnostic, Span};
 use crate::model::Problem;
 use crate::numeric::{
     decimal, evaluate_closed_form, to_rug_integer, to_rug_rational, DirectError, DirectValue,
@@ -66,6 +66,185 @@ pub struct Table {
     pub direct_error_bound: String,
 }
 
+/// A direct product that the table walks row by row: the running product of one rule, or the
+/// chain across the pieces of a piecewise model.
+pub trait DirectSource {
+    /// Steps forward until the current index is `k`.
+    fn advance_to(&mut self, k: &BigInt) -> Result<(), DirectError>;
+    /// Moves from a(k) to a(k+1).
+    fn step(&mut self) -> Result<(), DirectError>;
+    /// The current value with `digits` significant digits.
+    fn decimal(&self, digits: u32) -> String;
+    /// The current value as sign and logarithm, at `prec` bits.
+    fn log(&self, prec: u32) -> LogReal;
+    /// The proven bound on the current value's relative error; None when it is exact.
+    fn error_bound(&self) -> Option<Float>;
+}
+
+impl DirectSource for RunningProduct {
+    fn advance_to(&mut self, k: &BigInt) -> Result<(), DirectError> {
+        let target = to_rug_integer(k);
+        while *self.index() < target {
+            RunningProduct::step(self)?;
+        }
+        Ok(())
+    }
+
+    fn step(&mut self) -> Result<(), DirectError> {
+        RunningProduct::step(self)
+    }
+
+    fn decimal(&self, digits: u32) -> String {
+        direct_decimal(&self.value(), digits)
+    }
+
+    fn log(&self, prec: u32) -> LogReal {
+        direct_log(&self.value(), prec)
+    }
+
+    fn error_bound(&self) -> Option<Float> {
+        match self.value() {
+            DirectValue::Exact(_) => None,
+            DirectValue::Approx {
+                rel_error_bound, ..
+            } => Some(rel_error_bound),
+        }
+    }
+}
+
+/// The checks every table makes before it multiplies anything; returns the number of rows and
+/// of steps from the base term to the last row.
+pub(crate) fn check_request(
+    base: &BigInt,
+    missing: &[&str],
+    request: &TableRequest,
+    here: &Span,
+) -> Result<(u64, u64), Diagnostic> {
+    let fail = |message: String| Diagnostic::new(message, here.clone());
+    if !missing.is_empty() {
+        let example = missing
+            .iter()
+            .map(|m| format!("--param {m}=…"))
+            .collect::<Vec<_>>()
+            .join(" ");
+        return Err(fail(format!(
+            "a table needs a value for every parameter; missing: {}",
+            missing.join(", ")
+        ))
+        .with_help(format!("add {example}")));
+    }
+    if request.from < *base {
+        return Err(fail(format!(
+            "the table starts at k = {} but the sequence starts at its base term k = {base}",
+            request.from
+        ))
+        .with_help(format!("use --k {base}..{}", request.to)));
+    }
+    if request.to < request.from {
+        return Err(fail("the range of k is empty (A > B in --k A..B)".into()));
+    }
+    let rows = (&request.to - &request.from + 1u32)
+        .to_u64()
+        .unwrap_or(u64::MAX);
+    if rows > MAX_ROWS {
+        return Err(fail(format!(
+            "{rows} rows is too many for one table (at most {MAX_ROWS})"
+        )));
+    }
+    let steps = (&request.to - base).to_u64().unwrap_or(u64::MAX);
+    if steps > MAX_STEPS {
+        return Err(fail(format!(
+            "the direct product up to k = {} needs {steps} multiplications (at most {MAX_STEPS})",
+            request.to
+        ))
+        .with_help("the closed form itself is fast at any k: use `telescope solve` with --param for single values"));
+    }
+    Ok((rows, steps))
+}
+
+/// The message for a direct product that cannot go on.
+pub(crate) fn direct_error(e: DirectError, here: &Span) -> Diagnostic {
+    let message = match e {
+        DirectError::ZeroDenominator { k, .. } => {
+            format!("with these parameter values the rule divides by zero at k = {k}")
+        }
+        DirectError::BeforeBase { k } => format!("k = {k} lies before the base term"),
+        DirectError::TooManySteps { steps, limit } => {
+            format!("{steps} steps exceed the limit {limit}")
+        }
+    };
+    Diagnostic::new(message, here.clone())
+}
+
+/// The rows of a table, whatever the direct product and the closed form are.
+pub(crate) struct FilledRows {
+    pub rows: Vec<Row>,
+    pub checked_rows: Vec<BigInt>,
+    pub max_rel_diff: String,
+    /// The largest relative error bound of a direct value (0 when exact).
+    pub worst_bound: Float,
+}
+
+/// Walks `source` over the requested rows, evaluating `closed` at the sampled offsets (sorted)
+/// and comparing it with the direct value there.
+pub(crate) fn fill_rows(
+    source: &mut impl DirectSource,
+    request: &TableRequest,
+    rows: u64,
+    sample: &[u64],
+    here: &Span,
+    mut closed: impl FnMut(&BigInt) -> Result<LogReal, String>,
+) -> Result<FilledRows, Diagnostic> {
+    source
+        .advance_to(&request.from)
+        .map_err(|e| direct_error(e, here))?;
+    let mut out = FilledRows {
+        rows: Vec::with_capacity(rows as usize),
+        checked_rows: Vec::new(),
+        max_rel_diff: String::new(),
+        worst_bound: Float::new(64),
+    };
+    let mut max_rel = Float::new(64);
+    let mut next_sample = 0usize;
+    for offset in 0..rows {
+        if offset > 0 {
+            source.step().map_err(|e| direct_error(e, here))?;
+        }
+        let k = &request.from + BigInt::from(offset);
+        if let Some(bound) = source.error_bound() {
+            if bound > out.worst_bound {
+                out.worst_bound = bound;
+            }
+        }
+        let mut row = Row {
+            k: k.clone(),
+            direct: source.decimal(request.digits),
+            closed: None,
+            rel_diff: None,
+        };
+        if next_sample < sample.len() && sample[next_sample] == offset {
+            next_sample += 1;
+            let value = closed(&k).map_err(|e| {
+                Diagnostic::new(
+                    format!("the closed form cannot be evaluated at k = {k}: {e}"),
+                    here.clone(),
+                )
+            })?;
+            let prec = value.ln_abs.prec().max(64);
+            let rel = source.log(prec).rel_diff(&value, 64);
+            if rel > max_rel {
+                max_rel = rel.clone();
+            }
+            row.closed = Some(value.to_decimal(request.digits));
+            row.rel_diff = Some(decimal::short(&rel));
+            out.checked_rows.push(k);
+        }
+        out.rows.push(row);
+    }
+    out.max_rel_diff = decimal::short(&max_rel);
+    Ok(out)
+}
+
 /// Builds the table for a solved problem. Every parameter must have a value.
 pub fn build_table(
     problem: &Problem,
@@ -80,159 +259,47 @@ pub fn build_table(
         .filter(|p| !values.contains_key(&p.name))
         .map(|p| p.name.as_str())
         .collect();
-    if !missing.is_empty() {
-        let example = missing
-            .iter()
-            .map(|m| format!("--param {m}=…"))
-            .collect::<Vec<_>>()
-            .join(" ");
-        return Err(Diagnostic::new(
-            format!(
-                "a table needs a value for every parameter; missing: {}",
-                missing.join(", ")
-            ),
-            here,
-        )
-        .with_help(format!("add {example}")));
-    }
     let base = &solution.base_index;
-    if request.from < *base {
-        return Err(Diagnostic::new(
-            format!(
-                "the table starts at k = {} but the sequence starts at its base term k = {base}",
-                request.from
-            ),
-            here,
-        )
-        .with_help(format!("use --k {base}..{}", request.to)));
-    }
-    if request.to < request.from {
-        return Err(Diagnostic::new(
-            "the range of k is empty (A > B in --k A..B)",
-            here,
-        ));
-    }
-    let rows = (&request.to - &request.from + 1u32)
-        .to_u64()
-        .unwrap_or(u64::MAX);
-    if rows > MAX_ROWS {
-        return Err(Diagnostic::new(
-            format!("{rows} rows is too many for one table (at most {MAX_ROWS})"),
-            here,
-        ));
-    }
-    let steps = (&request.to - base).to_u64().unwrap_or(u64::MAX);
-    if steps > MAX_STEPS {
-        return Err(Diagnostic::new(
-            format!("the direct product up to k = {} needs {steps} multiplications (at most {MAX_STEPS})", request.to),
-            here,
-        )
-        .with_help("the closed form itself is fast at any k: use `telescope solve` with --param for single values"));
-    }
-    let ratio = numeric_ratio(problem, values);
+    let (rows, steps) = check_request(base, &missing, request, &here)?;
     let exact = steps <= EXACT_STEPS;
     let base_value = to_rug_rational(&request.base_value);
     let mut run = RunningProduct::new(
-        ratio,
+        numeric_ratio(problem, values),
         to_rug_integer(base),
         base_value.clone(),
         exact,
         request.digits,
         steps,
     );
-    let direct_error = |e: DirectError| -> Diagnostic {
-        match e {
-            DirectError::ZeroDenominator { k, .. } => Diagnostic::new(
-                format!("with these parameter values the rule divides by zero at k = {k}"),
-                problem.rule_span.clone(),
-            ),
-            DirectError::BeforeBase { k } => Diagnostic::new(
-                format!("k = {k} lies before the base term"),
-                problem.rule_span.clone(),
-            ),
-            DirectError::TooManySteps { steps, limit } => Diagnostic::new(
-                format!("{steps} steps exceed the limit {limit}"),
-                problem.rule_span.clone(),
-            ),
-        }
-    };
-    let from = to_rug_integer(&request.from);
-    while *run.index() < from {
-        run.step().map_err(direct_error)?;
-    }
     let sample = sample_offsets(rows, request.check_all);
-    let mut out_rows = Vec::with_capacity(rows as usize);
-    let mut checked_rows = Vec::new();
-    let mut max_rel = Float::new(64);
-    let mut worst_bound = Float::new(64);
-    let mut next_sample = 0usize;
-    for offset in 0..rows {
-        if offset > 0 {
-            run.step().map_err(direct_error)?;
-        }
-        let k = &request.from + BigInt::from(offset);
-        let value = run.value();
-        let direct = direct_decimal(&value, request.digits);
-        if let DirectValue::Approx {
-            rel_error_bound, ..
-        } = &value
-        {
-            if *rel_error_bound > worst_bound {
-                worst_bound = rel_error_bound.clone();
-            }
-        }
-        let mut row = Row {
-            k: k.clone(),
-            direct,
-            closed: None,
-            rel_diff: None,
-        };
-        if next_sample < sample.len() && sample[next_sample] == offset {
-            next_sample += 1;
-            let closed = evaluate_closed_form(
-                &solution.closed_form,
-                &k,
-                values,
-                &base_value,
-                request.digits,
-            )
-            .map_err(|e| {
-                Diagnostic::new(
-                    format!("the closed form cannot be evaluated at k = {k}: {e:?}"),
-                    problem.rule_span.clone(),
-                )
-            })?;
-            let prec = closed.ln_abs.prec().max(64);
-            let direct_log = direct_log(&value, prec);
-            let rel = direct_log.rel_diff(&closed, 64);
-            if rel > max_rel {
-                max_rel = rel.clone();
-            }
-            row.closed = Some(closed.to_decimal(request.digits));
-            row.rel_diff = Some(decimal::short(&rel));
-            checked_rows.push(k);
-        }
-        out_rows.push(row);
-    }
-    let bits = match run.value() {
-        DirectValue::Approx { mantissa, .. } => Some(mantissa.prec()),
-        DirectValue::Exact(_) => None,
+    let filled = fill_rows(&mut run, request, rows, &sample, &here, |k| {
+        evaluate_closed_form(
+            &solution.closed_form,
+            k,
+            values,
+            &base_value,
+            request.digits,
+        )
+        .map_err(|e| format!("{e:?}"))
+    })?;
+    let method = match run.value() {
+        DirectValue::Approx { mantissa, .. } => DirectMethod::Mpfr {
+            bits: mantissa.prec(),
+        },
+        DirectValue::Exact(_) => DirectMethod::Exact,
     };
     Ok(Table {
         digits: request.digits,
         params: values.clone(),
         base_value: request.base_value.clone(),
-        rows: out_rows,
-        checked_rows,
-        max_rel_diff: decimal::short(&max_rel),
-        method: match bits {
-            Some(bits) => DirectMethod::Mpfr { bits },
-            None => DirectMethod::Exact,
-        },
+        rows: filled.rows,
+        checked_rows: filled.checked_rows,
+        max_rel_diff: filled.max_rel_diff,
+        method,
         direct_error_bound: if exact {
             "0".into()
         } else {
-            decimal::short(&worst_bound)
+            decimal::short(&filled.worst_bound)
         },
     })
 }

@@ -12,8 +12,8 @@ use crate::numeric::{
     GUARD_BITS,
 };
 use crate::table::{
-    numeric_ratio, sample_offsets, DirectMethod, Row, Table, TableRequest, EXACT_STEPS, MAX_ROWS,
-    MAX_STEPS,
+    check_request, fill_rows, numeric_ratio, sample_offsets, DirectMethod, DirectSource, Table,
+    TableRequest, EXACT_STEPS,
 };
 
 use super::{ModelSolution, PiecewiseEvaluator};
@@ -168,7 +168,6 @@ pub fn build_piecewise_table(
     request: &TableRequest,
     here: Span,
 ) -> Result<Table, Diagnostic> {
-    let fail = |message: String| Diagnostic::new(message, here.clone());
     let values = &solution.values;
     let missing: Vec<&str> = solution.pieces[0]
         .problem
@@ -177,53 +176,19 @@ pub fn build_piecewise_table(
         .filter(|p| !values.contains_key(&p.name))
         .map(|p| p.name.as_str())
         .collect();
-    if !missing.is_empty() {
-        return Err(fail(format!(
-            "a table needs a value for every parameter; missing: {}",
-            missing.join(", ")
-        ))
-        .with_help(format!("add --param {}=…", missing[0])));
-    }
     let base = solution.base_index();
-    if request.from < base {
-        return Err(fail(format!(
-            "the table starts at k = {} but the sequence starts at its base term k = {base}",
-            request.from
-        ))
-        .with_help(format!("use --k {base}..{}", request.to)));
-    }
-    let rows = (&request.to - &request.from + 1u32)
-        .to_u64()
-        .unwrap_or(u64::MAX);
-    if rows > MAX_ROWS {
-        return Err(fail(format!(
-            "{rows} rows is too many for one table (at most {MAX_ROWS})"
-        )));
-    }
-    let steps = (&request.to - &base).to_u64().unwrap_or(u64::MAX);
-    if steps > MAX_STEPS {
-        return Err(fail(format!(
-            "the direct product up to k = {} needs {steps} multiplications (at most {MAX_STEPS})",
-            request.to
-        )));
-    }
+    let (rows, steps) = check_request(&base, &missing, request, &here)?;
     let exact = steps <= EXACT_STEPS;
-    let closed = PiecewiseEvaluator::new(solution, &request.base_value, request.digits)
-        .map_err(|e| fail(format!("the closed form cannot be evaluated: {e:?}")))?;
+    let closed =
+        PiecewiseEvaluator::new(solution, &request.base_value, request.digits).map_err(|e| {
+            Diagnostic::new(
+                format!("the closed form cannot be evaluated: {e:?}"),
+                here.clone(),
+            )
+        })?;
     let mut chain =
         ChainedProduct::new(solution, &request.base_value, exact, request.digits, steps);
-    let direct_error = |e: DirectError| match e {
-        DirectError::ZeroDenominator { k, .. } => fail(format!(
-            "with these parameter values the rule divides by zero at k = {k}"
-        )),
-        DirectError::BeforeBase { k } => fail(format!("k = {k} lies before the base term")),
-        DirectError::TooManySteps { steps, limit } => {
-            fail(format!("{steps} steps exceed the limit {limit}"))
-        }
-    };
-    while chain.index() < request.from {
-        chain.step().map_err(direct_error)?;
-    }
+    // Besides the log-spaced sample, both sides of every breakpoint are checked.
     let mut sample = sample_offsets(rows, request.check_all);
     for b in solution.breakpoints() {
         for k in [b.clone(), &b + 1] {
@@ -234,56 +199,16 @@ pub fn build_piecewise_table(
     }
     sample.sort_unstable();
     sample.dedup();
-    let mut out_rows = Vec::with_capacity(rows as usize);
-    let mut checked_rows = Vec::new();
-    let mut max_rel = Float::new(64);
-    let mut worst_bound = Float::new(64);
-    let mut next_sample = 0usize;
-    for offset in 0..rows {
-        if offset > 0 {
-            chain.step().map_err(direct_error)?;
-        }
-        let k = &request.from + BigInt::from(offset);
-        let value = chain.value();
-        if let ChainValue::Approx {
-            rel_error_bound, ..
-        } = &value
-        {
-            if *rel_error_bound > worst_bound {
-                worst_bound = rel_error_bound.clone();
-            }
-        }
-        let mut row = Row {
-            k: k.clone(),
-            direct: value.decimal(request.digits),
-            closed: None,
-            rel_diff: None,
-        };
-        if next_sample < sample.len() && sample[next_sample] == offset {
-            next_sample += 1;
-            let c = closed.value(&k).map_err(|e| {
-                fail(format!(
-                    "the closed form cannot be evaluated at k = {k}: {e:?}"
-                ))
-            })?;
-            let prec = c.ln_abs.prec().max(64);
-            let rel = value.log(prec).rel_diff(&c, 64);
-            if rel > max_rel {
-                max_rel = rel.clone();
-            }
-            row.closed = Some(c.to_decimal(request.digits));
-            row.rel_diff = Some(decimal::short(&rel));
-            checked_rows.push(k);
-        }
-        out_rows.push(row);
-    }
+    let filled = fill_rows(&mut chain, request, rows, &sample, &here, |k| {
+        closed.value(k).map_err(|e| format!("{e:?}"))
+    })?;
     Ok(Table {
         digits: request.digits,
         params: values.clone(),
         base_value: request.base_value.clone(),
-        rows: out_rows,
-        checked_rows,
-        max_rel_diff: decimal::short(&max_rel),
+        rows: filled.rows,
+        checked_rows: filled.checked_rows,
+        max_rel_diff: filled.max_rel_diff,
         method: if exact {
             DirectMethod::Exact
         } else {
@@ -294,7 +219,37 @@ pub fn build_piecewise_table(
         direct_error_bound: if exact {
             "0".into()
         } else {
-            decimal::short(&worst_bound)
+            decimal::short(&filled.worst_bound)
         },
     })
+}
+
+impl DirectSource for ChainedProduct<'_> {
+    fn advance_to(&mut self, k: &BigInt) -> Result<(), DirectError> {
+        while self.index() < *k {
+            ChainedProduct::step(self)?;
+        }
+        Ok(())
+    }
+
+    fn step(&mut self) -> Result<(), DirectError> {
+        ChainedProduct::step(self)
+    }
+
+    fn decimal(&self, digits: u32) -> String {
+        self.value().decimal(digits)
+    }
+
+    fn log(&self, prec: u32) -> LogReal {
+        self.value().log(prec)
+    }
+
+    fn error_bound(&self) -> Option<Float> {
+        match self.value() {
+            ChainValue::Exact(_) => None,
+            ChainValue::Approx {
+                rel_error_bound, ..
+            } => Some(rel_error_bound),
+        }
+    }
 }
