@@ -95,20 +95,24 @@ impl DirectSource for RunningProduct {
     }
 
     fn decimal(&self, digits: u32) -> String {
-        direct_decimal(&self.value(), digits)
+        match self.value_ref() {
+            Ok(q) => decimal::rational_to_decimal(q, digits),
+            Err((mantissa, 0)) => decimal::float_to_decimal(mantissa, digits),
+            Err((mantissa, exp2)) => {
+                LogReal::from_scaled(mantissa, exp2, mantissa.prec() + 64).to_decimal(digits)
+            }
+        }
     }
 
     fn log(&self, prec: u32) -> LogReal {
-        direct_log(&self.value(), prec)
+        match self.value_ref() {
+            Ok(q) => LogReal::from_rational(q, prec),
+            Err((mantissa, exp2)) => LogReal::from_scaled(mantissa, exp2, prec),
+        }
     }
 
     fn error_bound(&self) -> Option<Float> {
-        match self.value() {
-            DirectValue::Exact(_) => None,
-            DirectValue::Approx {
-                rel_error_bound, ..
-            } => Some(rel_error_bound),
-        }
+        RunningProduct::error_bound(self)
     }
 }
 
@@ -327,27 +331,6 @@ pub fn numeric_ratio(problem: &Problem, values: &BTreeMap<String, Q>) -> Numeric
                 exponent: f.exponent,
             })
             .collect(),
-    }
-}
-
-fn direct_decimal(value: &DirectValue, digits: u32) -> String {
-    match value {
-        DirectValue::Exact(q) => decimal::rational_to_decimal(q, digits),
-        DirectValue::Approx { mantissa, exp2, .. } => {
-            if *exp2 == 0 {
-                decimal::float_to_decimal(mantissa, digits)
-            } else {
-                let prec = mantissa.prec() + 64;
-                LogReal::from_scaled(mantissa, *exp2, prec).to_decimal(digits)
-            }
-        }
-    }
-}
-
-fn direct_log(value: &DirectValue, prec: u32) -> LogReal {
-    match value {
-        DirectValue::Exact(q) => LogReal::from_rational(q, prec),
-        DirectValue::Approx { mantissa, exp2, .. } => LogReal::from_scaled(mantissa, *exp2, prec),
     }
 }
 

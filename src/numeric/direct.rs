@@ -116,6 +116,14 @@ struct ApproxState {
     unit: Float,
 }
 
+impl ApproxState {
+    /// One rounding for the base value and one for the scaled constant, plus m per step.
+    fn bound(&self) -> Float {
+        let roundings = self.steps * self.roundings_per_step + 2;
+        Float::with_val(64, &self.unit * roundings) * 1.01f32
+    }
+}
+
 /// MPFR exponents beyond this are moved into `exp2` (MPFR's own range is about ±2^30).
 const RENORMALISE_AT: i32 = 1 << 28;
 
@@ -243,16 +251,29 @@ impl RunningProduct {
     pub fn value(&self) -> DirectValue {
         match &self.state {
             State::Exact(value) => DirectValue::Exact(value.clone()),
-            State::Approx(state) => {
-                // One rounding for the base value and one for the scaled constant, plus m per step.
-                let roundings = state.steps * state.roundings_per_step + 2;
-                let bound = Float::with_val(64, &state.unit * roundings) * 1.01f32;
-                DirectValue::Approx {
-                    mantissa: state.value.clone(),
-                    exp2: state.exp2,
-                    rel_error_bound: bound,
-                }
-            }
+            State::Approx(state) => DirectValue::Approx {
+                mantissa: state.value.clone(),
+                exp2: state.exp2,
+                rel_error_bound: state.bound(),
+            },
+        }
+    }
+
+    /// The bound on the current value's relative error; None on the exact route. Cheaper than
+    /// `value()`, which copies the value.
+    pub fn error_bound(&self) -> Option<Float> {
+        match &self.state {
+            State::Exact(_) => None,
+            State::Approx(state) => Some(state.bound()),
+        }
+    }
+
+    /// The current value without copying it: the exact rational, or mantissa and binary
+    /// exponent.
+    pub fn value_ref(&self) -> Result<&Rational, (&Float, i64)> {
+        match &self.state {
+            State::Exact(value) => Ok(value),
+            State::Approx(state) => Err((&state.value, state.exp2)),
         }
     }
 }
