@@ -191,3 +191,19 @@ fn standard_input_is_read_with_a_dash() {
     assert!(o.status.success());
     assert!(stdout(&o).contains("α"));
 }
+
+#[test]
+fn a_reader_that_stops_early_does_not_make_it_panic() {
+    // `telescope table … | head` closes the pipe while rows are still being written.
+    let mut child = Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(["table", GROWTH, "--param", "rho=3/10", "--k", "1..5000"])
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    drop(child.stdout.take());
+    let o = child.wait_with_output().unwrap();
+    assert!(!stderr(&o).contains("panicked"), "{}", stderr(&o));
+    assert_eq!(o.status.code(), Some(0));
+}
