@@ -207,3 +207,16 @@ fn a_reader_that_stops_early_does_not_make_it_panic() {
     assert!(!stderr(&o).contains("panicked"), "{}", stderr(&o));
     assert_eq!(o.status.code(), Some(0));
 }
+
+#[test]
+fn a_missing_model_file_is_reported_as_missing() {
+    // It used to be read as a rule: "unexpected character `.`" at the file name's dot.
+    for path in [
+        "examples/no_such_model.rule",
+        "/tmp/no_such_telescope_model.txt",
+    ] {
+        let o = telescope(&["solve", path]);
+        assert_eq!(o.status.code(), Some(2));
+        assert!(stderr(&o).contains("no such file"), "{}", stderr(&o));
+    }
+}
