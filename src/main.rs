@@ -160,7 +160,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             let (sum, analysis) = if model.is_piecewise() {
                 if normalize {
                     return Err(Error::Usage(
-                        "--normalize is not available for piecewise models yet; the exact sum over the pieces is printed instead".into(),
+                        "--normalize is not available for piecewise models yet; without --normalize, solve prints the exact sum over the pieces".into(),
                     ));
                 }
                 (session::model_sum(&model, &solved, digits)?, None)

@@ -220,3 +220,14 @@ fn a_missing_model_file_is_reported_as_missing() {
         assert!(stderr(&o).contains("no such file"), "{}", stderr(&o));
     }
 }
+
+#[test]
+fn normalize_on_a_piecewise_model_says_what_to_do_instead() {
+    // The message used to say the exact sum "is printed instead", but nothing is printed.
+    let args = ["solve", "examples/repair_counter.rule", "--param", "c=3"];
+    let o = telescope(&[&args[..], &["--normalize"]].concat());
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stdout(&o).is_empty());
+    assert!(!stderr(&o).contains("is printed instead"), "{}", stderr(&o));
+    assert!(stderr(&o).contains("without --normalize"), "{}", stderr(&o));
+}
