@@ -231,3 +231,19 @@ fn normalize_on_a_piecewise_model_says_what_to_do_instead() {
     assert!(!stderr(&o).contains("is printed instead"), "{}", stderr(&o));
     assert!(stderr(&o).contains("without --normalize"), "{}", stderr(&o));
 }
+
+#[test]
+fn a_table_too_far_out_points_to_something_that_exists() {
+    // The help sent the user to `solve --param` "for single values", which solve does not give.
+    let o = telescope(&[
+        "table",
+        GROWTH,
+        "--param",
+        "rho=3/10",
+        "--k",
+        "1000000000000..1000000000001",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(!stderr(&o).contains("single values"), "{}", stderr(&o));
+    assert!(stderr(&o).contains("tail law"), "{}", stderr(&o));
+}
