@@ -160,7 +160,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             let (sum, analysis) = if model.is_piecewise() {
                 if normalize {
                     return Err(Error::Usage(
-                        "--normalize is not available for piecewise models yet; the exact sum over the pieces is printed instead".into(),
+                        "--normalize is not available for piecewise models yet; without --normalize, solve prints the exact sum over the pieces".into(),
                     ));
                 }
                 (session::model_sum(&model, &solved, digits)?, None)
@@ -328,7 +328,9 @@ fn main() -> ExitCode {
     };
     match outcome {
         Ok((out, holds)) => {
-            print!("{out}");
+            // A reader that stops early (`| head`) closes the pipe; that is not an error of ours,
+            // and `print!` would panic on it.
+            let _ = std::io::Write::write_all(&mut std::io::stdout().lock(), out.as_bytes());
             // A refuted claim is a result, not an error: its report goes to stdout, exit 1.
             ExitCode::from(if holds { 0 } else { 1 })
         }

@@ -64,6 +64,10 @@ pub fn read_input(arg: &str) -> Result<Input, Error> {
             name: arg.to_string(),
             text,
         }
+    } else if looks_like_a_path(arg) {
+        return Err(Error::Usage(format!(
+            "{arg}: no such file (a rule given in quotes needs its brackets, e.g. `(k-1)/(k+2)`)"
+        )));
     } else {
         Input {
             name: "<rule>".into(),
@@ -78,6 +82,16 @@ pub fn read_input(arg: &str) -> Result<Input, Error> {
         )));
     }
     Ok(input)
+}
+
+/// A name that is meant as a file, not a rule: no brackets, spaces or `=`, and either the
+/// model files' extension or a directory part that exists (a bare ratio like `1/k` has none).
+fn looks_like_a_path(arg: &str) -> bool {
+    if arg.contains(|c: char| c.is_whitespace() || "()=".contains(c)) {
+        return false;
+    }
+    let dir = Path::new(arg).parent();
+    arg.ends_with(".rule") || dir.is_some_and(|d| !d.as_os_str().is_empty() && d.is_dir())
 }
 
 /// Parses and interprets the input.

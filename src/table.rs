@@ -161,7 +161,7 @@ pub(crate) fn check_request(
             "the direct product up to k = {} needs {steps} multiplications (at most {MAX_STEPS})",
             request.to
         ))
-        .with_help("the closed form itself is fast at any k: use `telescope solve` with --param for single values"));
+        .with_help("the direct product runs from the base term; for large k, `telescope solve --param …` gives the tail law with its prefactor and corrections"));
     }
     Ok((rows, steps))
 }

@@ -191,3 +191,59 @@ fn standard_input_is_read_with_a_dash() {
     assert!(o.status.success());
     assert!(stdout(&o).contains("α"));
 }
+
+#[test]
+fn a_reader_that_stops_early_does_not_make_it_panic() {
+    // `telescope table … | head` closes the pipe while rows are still being written.
+    let mut child = Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(["table", GROWTH, "--param", "rho=3/10", "--k", "1..5000"])
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    drop(child.stdout.take());
+    let o = child.wait_with_output().unwrap();
+    assert!(!stderr(&o).contains("panicked"), "{}", stderr(&o));
+    assert_eq!(o.status.code(), Some(0));
+}
+
+#[test]
+fn a_missing_model_file_is_reported_as_missing() {
+    // It used to be read as a rule: "unexpected character `.`" at the file name's dot.
+    for path in [
+        "examples/no_such_model.rule",
+        "/tmp/no_such_telescope_model.txt",
+    ] {
+        let o = telescope(&["solve", path]);
+        assert_eq!(o.status.code(), Some(2));
+        assert!(stderr(&o).contains("no such file"), "{}", stderr(&o));
+    }
+}
+
+#[test]
+fn normalize_on_a_piecewise_model_says_what_to_do_instead() {
+    // The message used to say the exact sum "is printed instead", but nothing is printed.
+    let args = ["solve", "examples/repair_counter.rule", "--param", "c=3"];
+    let o = telescope(&[&args[..], &["--normalize"]].concat());
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stdout(&o).is_empty());
+    assert!(!stderr(&o).contains("is printed instead"), "{}", stderr(&o));
+    assert!(stderr(&o).contains("without --normalize"), "{}", stderr(&o));
+}
+
+#[test]
+fn a_table_too_far_out_points_to_something_that_exists() {
+    // The help sent the user to `solve --param` "for single values", which solve does not give.
+    let o = telescope(&[
+        "table",
+        GROWTH,
+        "--param",
+        "rho=3/10",
+        "--k",
+        "1000000000000..1000000000001",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(!stderr(&o).contains("single values"), "{}", stderr(&o));
+    assert!(stderr(&o).contains("tail law"), "{}", stderr(&o));
+}

@@ -354,8 +354,13 @@ fn name_meaning(name: &str, span: Span, cx: &ClaimContext) -> Result<Claim, Diag
 
 /// Checks that a sequence term is the base term a(b).
 fn base_term(name: &str, index: &Expr, span: Span, cx: &ClaimContext) -> Result<(), Diagnostic> {
-    let is_base = matches!(&index.kind, ExprKind::Number(q)
-        if q.is_integer() && q.to_integer() == *cx.base_index);
+    let is_base = match &index.kind {
+        ExprKind::Number(q) => q.is_integer() && q.to_integer() == *cx.base_index,
+        // `n(-2)`: the parser reads the minus as a negation of the number.
+        ExprKind::Neg(inner) => matches!(&inner.kind, ExprKind::Number(q)
+            if q.is_integer() && -q.to_integer() == *cx.base_index),
+        _ => false,
+    };
     if is_base {
         return Ok(());
     }
@@ -447,5 +452,21 @@ mod tests {
         assert!(e.help.unwrap().contains("rho"));
         let e = cx_read("(k + 1").unwrap_err();
         assert_eq!(e.span.start, 0);
+    }
+
+    #[test]
+    fn a_negative_base_index_is_the_base_term() {
+        // A rule `for k >= -1` has base term n(-2); the claim wrote exactly that and was told
+        // to use n(-2).
+        let base = BigInt::from(-2);
+        let cx = ClaimContext {
+            index: "k",
+            sequence: "n",
+            base_index: &base,
+            params: vec![],
+        };
+        let c = read_claim("n(-2) (k+2)(k+1)/2", &cx).unwrap();
+        assert!(c.mentions_base());
+        assert!(read_claim("n(2) (k+2)", &cx).is_err());
     }
 }
