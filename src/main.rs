@@ -114,10 +114,12 @@ enum TableFormat {
 
 /// Largest `--digits` accepted.
 const MAX_DIGITS: u32 = 10_000;
-/// Largest `--terms` accepted (each term is a Bernoulli polynomial of that degree).
-const MAX_TERMS: usize = 40;
-/// Largest `--digits` for `solve`, whose sums get slower with the digits.
-const MAX_SOLVE_DIGITS: u32 = 2_000;
+/// Largest `--terms` accepted: the symbolic corrections c_n grow quickly with n when the
+/// shifts hold parameters (--terms 8 takes seconds on a one-parameter rule, 12 a minute).
+const MAX_TERMS: usize = 6;
+/// Largest `--digits` for `solve`, whose sums get slower with the digits (500 digits take
+/// about a second, 1000 about eight).
+const MAX_SOLVE_DIGITS: u32 = 500;
 
 fn run(cli: Cli) -> Result<String, Error> {
     match cli.command {

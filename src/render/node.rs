@@ -72,6 +72,8 @@ impl Node {
                     negative = !negative;
                     match *inner {
                         Node::Product(more) => flat.extend(more),
+                        // −1 · x is −x: the one goes, the sign stays.
+                        one if one.is_one() => {}
                         other => flat.push(other),
                     }
                 }
@@ -107,5 +109,18 @@ impl Node {
             return base;
         }
         Node::Pow(Box::new(base), Box::new(exponent))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn minus_one_times_a_sum_is_its_negation() {
+        // −1·(a + k) must not keep the 1 (it printed as "−1(a + k)").
+        let sum = Node::Sum(vec![Node::sym("a"), Node::sym("k")]);
+        let product = Node::product(vec![Node::int(1).negate(), sum.clone()]);
+        assert_eq!(product, sum.negate());
     }
 }
