@@ -54,13 +54,7 @@ pub fn write(n: &Node) -> String {
             let mut out = String::new();
             for (i, item) in items.iter().enumerate() {
                 if i > 0 {
-                    // `5\,{3}^{k}`, not `5{3}^{k}` (which reads 53^k).
-                    let juxtapose = matches!(items[i - 1], Node::Int(_))
-                        && match item {
-                            Node::Symbol(_) | Node::Sum(_) => true,
-                            Node::Pow(base, _) => !matches!(**base, Node::Int(_)),
-                            _ => false,
-                        };
+                    let juxtapose = Node::juxtaposes(&items[i - 1], item);
                     out += if juxtapose { "" } else { "\\," };
                 }
                 out += &wrap(item, 3);
@@ -89,27 +83,5 @@ pub fn write(n: &Node) -> String {
         Node::Rising(base, count) => format!("{}_{{{}}}", paren(&write(base)), write(count)),
         Node::Factorial(inner) => format!("{}!", wrap(inner, 6)),
         Node::Term(name, index) => format!("{}{}", latex_name(name), paren(&write(index))),
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn a_number_before_a_power_of_a_number_keeps_its_product_sign() {
-        let three_to_k = Node::Pow(
-            Box::new(Node::Int(3.into())),
-            Box::new(Node::Symbol("k".into())),
-        );
-        let product = Node::Product(vec![Node::Int(5.into()), three_to_k]);
-        assert_eq!(write(&product), "5\\,{3}^{k}");
-        let rho_to_k = Node::Pow(
-            Box::new(Node::Symbol("rho".into())),
-            Box::new(Node::Symbol("k".into())),
-        );
-        let product = Node::Product(vec![Node::Int(5.into()), rho_to_k]);
-        // A power of a parameter still follows the number directly (common practice).
-        assert!(!write(&product).contains("\\,"), "{}", write(&product));
     }
 }

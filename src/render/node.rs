@@ -104,6 +104,18 @@ impl Node {
         }
     }
 
+    /// Whether `item` may follow `previous` in a product with no sign between: a number
+    /// before a name, a sum or a power of a name (`2ρ`, `2(k + 1)`, `3ρ²`), but never before
+    /// a power of a number (`5·3^k`, not `53^k`). Both writers follow this.
+    pub fn juxtaposes(previous: &Node, item: &Node) -> bool {
+        matches!(previous, Node::Int(_))
+            && match item {
+                Node::Symbol(_) | Node::Sum(_) => true,
+                Node::Pow(base, _) => !matches!(**base, Node::Int(_)),
+                _ => false,
+            }
+    }
+
     pub fn pow(base: Node, exponent: Node) -> Node {
         if exponent.is_one() {
             return base;
@@ -122,5 +134,17 @@ mod tests {
         let sum = Node::Sum(vec![Node::sym("a"), Node::sym("k")]);
         let product = Node::product(vec![Node::int(1).negate(), sum.clone()]);
         assert_eq!(product, sum.negate());
+    }
+
+    #[test]
+    fn a_number_never_touches_a_power_of_a_number_in_either_writer() {
+        let power = |base: Node| Node::Pow(Box::new(base), Box::new(Node::sym("k")));
+        let five_three_k = Node::Product(vec![Node::int(5), power(Node::int(3))]);
+        assert_eq!(super::super::text::write(&five_three_k), "5·3^k");
+        assert_eq!(super::super::latex::write(&five_three_k), "5\\,{3}^{k}");
+        // A power of a parameter still follows the number directly (common practice).
+        let five_rho_k = Node::Product(vec![Node::int(5), power(Node::sym("rho"))]);
+        assert_eq!(super::super::text::write(&five_rho_k), "5ρ^k");
+        assert!(!super::super::latex::write(&five_rho_k).contains("\\,"));
     }
 }
