@@ -153,17 +153,8 @@ fn resolve(expr: &Expr, cx: &ClaimContext) -> Result<Claim, Diagnostic> {
                 base_term(name, index, span.clone(), cx)?;
                 ClaimKind::Base
             } else {
-                let subscript = match &index.kind {
-                    ExprKind::Ident(s) => s.clone(),
-                    ExprKind::Number(q) if q.is_integer() => q.to_string(),
-                    _ => {
-                        return Err(Diagnostic::new(
-                            format!("the subscript of `{name}` must be a name or a whole number"),
-                            index.span.clone(),
-                        ))
-                    }
-                };
-                return name_meaning(&format!("{name}_{subscript}"), span, cx);
+                let full = crate::model::subscripted_name(name, index)?;
+                return name_meaning(&full, span, cx);
             }
         }
         ExprKind::Call {

@@ -132,18 +132,7 @@ pub fn to_product(expr: &Expr, names: &mut Names) -> Result<ProductForm, Diagnos
             if name == names.sequence {
                 return Err(sequence_inside(name, span));
             }
-            let subscript = match &index.kind {
-                ExprKind::Ident(s) => s.clone(),
-                ExprKind::Number(q) if q.is_integer() => q.to_string(),
-                _ => {
-                    return Err(Diagnostic::new(
-                        format!("the subscript of `{name}` must be a name or a whole number"),
-                        index.span.clone(),
-                    )
-                    .with_help("parameter names may carry a simple subscript such as lambda_0"))
-                }
-            };
-            let full = format!("{name}_{subscript}");
+            let full = subscripted_name(name, index)?;
             ident(&full, span, names)
         }
         ExprKind::Call {
@@ -221,6 +210,23 @@ pub fn to_product(expr: &Expr, names: &mut Names) -> Result<ProductForm, Diagnos
             }
         },
     }
+}
+
+/// The parameter name a subscripted name stands for: `lambda_0`, `x_i`. Only a plain name or
+/// a whole number may be a subscript (the grammar allows any expression in braces).
+pub fn subscripted_name(name: &str, index: &Expr) -> Result<String, Diagnostic> {
+    let subscript = match &index.kind {
+        ExprKind::Ident(s) => s.clone(),
+        ExprKind::Number(q) if q.is_integer() => q.to_string(),
+        _ => {
+            return Err(Diagnostic::new(
+                format!("the subscript of `{name}` must be a name or a whole number"),
+                index.span.clone(),
+            )
+            .with_help("parameter names may carry a simple subscript such as lambda_0"))
+        }
+    };
+    Ok(format!("{name}_{subscript}"))
 }
 
 fn ident(name: &str, span: Span, names: &mut Names) -> Result<ProductForm, Diagnostic> {

@@ -18,7 +18,8 @@ pub use build::{
 };
 pub use derivation::{Assumption, Derivation, RuleSource};
 pub use expr::{
-    from_ratfunc, to_product, IndexFactor, Names, ProductForm, CONSTANT_NAMES, FUNCTION_NAMES,
+    from_ratfunc, subscripted_name, to_product, IndexFactor, Names, ProductForm, CONSTANT_NAMES,
+    FUNCTION_NAMES,
 };
 pub use linear::{LinearForm, TermAt};
 pub use normal_form::normal_form;
