@@ -142,11 +142,12 @@ impl Product {
         }
     }
 
-    /// Number of special-function factors, then total factor count: the simplicity measure
-    /// (fewer is simpler).
-    pub fn size(&self) -> (usize, usize) {
-        let special = self.factors.iter().filter(|f| f.is_special()).count();
-        (special, self.factors.len())
+    /// The factors with coefficient one.
+    pub fn of(factors: Vec<Factor>) -> Self {
+        Product {
+            coefficient: RatFunc::one(),
+            factors,
+        }
     }
 }
 

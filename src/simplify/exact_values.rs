@@ -135,10 +135,7 @@ mod tests {
     use crate::algebra::q;
 
     fn product(factors: Vec<Factor>) -> Product {
-        Product {
-            coefficient: RatFunc::one(),
-            factors,
-        }
+        Product::of(factors)
     }
 
     fn constant(n: i64, d: i64) -> Affine {

@@ -95,10 +95,7 @@ mod tests {
     }
 
     fn product(factors: Vec<Factor>) -> Product {
-        Product {
-            coefficient: RatFunc::one(),
-            factors,
-        }
+        Product::of(factors)
     }
 
     #[test]

@@ -250,10 +250,7 @@ mod tests {
     use crate::simplify::exact_values::gamma;
 
     fn product(factors: Vec<Factor>) -> Product {
-        Product {
-            coefficient: RatFunc::one(),
-            factors,
-        }
+        Product::of(factors)
     }
 
     fn k_plus(c: RatFunc) -> Affine {
