@@ -25,5 +25,6 @@ pub mod render;
 pub mod session;
 pub mod simplify;
 pub mod solve;
+pub mod sweep;
 pub mod syntax;
 pub mod table;

@@ -32,7 +32,7 @@ pub(super) struct Numbers {
     variance: Option<Bounded>,
     sums_method: Option<String>,
     pub(super) failure: Option<SumFailure>,
-    closed_total: Option<Bounded>,
+    pub(super) closed_total: Option<Bounded>,
     closed_mean: Option<Bounded>,
     closed_variance: Option<Bounded>,
 }
@@ -282,7 +282,12 @@ impl Numbers {
     }
 }
 
-fn number(b: &Bounded, method: &str, check: Option<String>, digits: u32) -> NumberReport {
+pub(super) fn number(
+    b: &Bounded,
+    method: &str,
+    check: Option<String>,
+    digits: u32,
+) -> NumberReport {
     let (value, exact) = match &b.exact {
         Some(q) => (
             decimal::rational_to_decimal(q, digits),

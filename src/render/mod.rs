@@ -10,6 +10,7 @@ pub mod model_output;
 pub mod node;
 pub mod report;
 pub mod solve_output;
+pub mod sweep_output;
 pub mod table_output;
 pub mod text;
 pub mod to_node;
