@@ -11,6 +11,7 @@ pub mod node;
 pub mod report;
 pub mod solve_output;
 pub mod sweep_output;
+pub mod sweep_svg;
 pub mod table_output;
 pub mod text;
 pub mod to_node;

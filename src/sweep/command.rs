@@ -102,6 +102,7 @@ pub fn run_command(args: SweepArgs) -> Result<String, Error> {
                 .expect("JSON values always serialise")
                 + "\n"
         }
-        SweepFormat::Svg => return Err(Error::Usage("--format svg: not built yet".into())),
+        SweepFormat::Svg => crate::render::sweep_svg::sweep_svg(&sweep)
+            .map_err(|e| Error::Usage(format!("the figure could not be drawn: {}", e.0)))?,
     })
 }
