@@ -118,8 +118,8 @@ fn boundary_text(b: &Boundary, sweep: &Sweep) -> String {
             by: Bracket::Bisection,
         } => format!(
             "{p} in [{}, {}] (an irrational root, bracketed by bisection)",
-            decimal::rational_to_decimal(&to_rug_rational(low), 20),
-            decimal::rational_to_decimal(&to_rug_rational(high), 20)
+            decimal::rational_to_decimal(&to_rug_rational(low), 25),
+            decimal::rational_to_decimal(&to_rug_rational(high), 25)
         ),
         Location::Bracketed { low, high, .. } => format!(
             "{p} between the sweep points {} and {} (bracketed numerically)",
@@ -135,11 +135,18 @@ fn boundary_text(b: &Boundary, sweep: &Sweep) -> String {
         .as_ref()
         .map(|i| format!("; from {}", inequality_strings(i).0))
         .unwrap_or_default();
-    format!(
-        "{t}: {} below, {} above {place}{at}{line}{from}",
-        state_word(b.below),
-        state_word(b.above)
-    )
+    let sides = match (b.below, b.above) {
+        (Some(lo), Some(hi)) => format!("{} below, {} above", state_word(lo), state_word(hi)),
+        (None, Some(hi)) => format!("{} above", state_word(hi)),
+        (Some(lo), None) => format!("{} below", state_word(lo)),
+        (None, None) => "changes at".to_string(),
+    };
+    let edge = match (b.below, b.above) {
+        (None, _) => " (the start of the range)",
+        (_, None) => " (the end of the range)",
+        _ => "",
+    };
+    format!("{t}: {sides} {place}{edge}{at}{line}{from}")
 }
 
 fn header(sweep: &Sweep) -> String {
@@ -340,9 +347,9 @@ fn boundary_json(b: &Boundary, sweep: &Sweep) -> Value {
     if let Value::Object(loc) = location {
         m.extend(loc);
     }
-    m.insert("below".into(), json!(state_word(b.below)));
+    m.insert("below".into(), json!(b.below.map(state_word)));
     m.insert("at".into(), json!(b.at.map(state_word)));
-    m.insert("above".into(), json!(state_word(b.above)));
+    m.insert("above".into(), json!(b.above.map(state_word)));
     m.insert(
         "condition".into(),
         b.requirement

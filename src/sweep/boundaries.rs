@@ -66,10 +66,11 @@ pub struct Boundary {
     /// In a grid, the value of the second varied parameter on this line.
     pub line: Option<(String, Q)>,
     pub location: Location,
-    /// The state just below, at (for exact boundaries) and just above the boundary.
-    pub below: State,
+    /// The state just below, at (for exact boundaries) and just above the boundary; `None`
+    /// below (above) a boundary at the start (end) of the range.
+    pub below: Option<State>,
     pub at: Option<State>,
-    pub above: State,
+    pub above: Option<State>,
     /// The requirement whose sign changes there, when one does.
     pub requirement: Option<Inequality>,
 }
@@ -140,9 +141,9 @@ pub fn find(plan: &Plan, request: &SweepRequest, points: &[Point]) -> Vec<Bounda
                             high: x1.clone(),
                             by: Bracket::SweepPoints,
                         },
-                        below: s0,
+                        below: Some(s0),
                         at: None,
-                        above: s1,
+                        above: Some(s1),
                         requirement: None,
                     });
                 }
@@ -161,7 +162,13 @@ fn cell_state(cell: &Cell) -> State {
     }
 }
 
-type Found = (Location, State, Option<State>, State, Option<Inequality>);
+type Found = (
+    Location,
+    Option<State>,
+    Option<State>,
+    Option<State>,
+    Option<Inequality>,
+);
 
 /// Boundaries in [from, to] from the roots of the governing inequalities.
 fn exact_boundaries(
@@ -220,9 +227,9 @@ fn exact_boundaries(
     for (root, inequality) in exact {
         let (lo, hi) = neighbours(&root);
         let at = state(&root);
-        let below = if root == *from { at } else { state(&lo) };
-        let above = if root == *to { at } else { state(&hi) };
-        if below != at || at != above {
+        let below = (root != *from).then(|| state(&lo));
+        let above = (root != *to).then(|| state(&hi));
+        if below.is_some_and(|b| b != at) || above.is_some_and(|a| a != at) {
             out.push((
                 Location::Exact(root),
                 below,
@@ -241,9 +248,9 @@ fn exact_boundaries(
                     high,
                     by: Bracket::Bisection,
                 },
-                below,
+                Some(below),
                 None,
-                above,
+                Some(above),
                 Some(inequality),
             ));
         }

@@ -338,7 +338,10 @@ fn place_points(from: &Q, to: &Q, integer: bool, spacing: &Spacing) -> Result<Ve
     let count_error = |n: u64| -> PlaceError {
         (
             "--points",
-            format!("{n} points: choose {MIN_POINTS} to {MAX_POINTS}"),
+            format!(
+                "a sweep of {n} point{}: choose {MIN_POINTS} to {MAX_POINTS} points",
+                if n == 1 { "" } else { "s" }
+            ),
             "a sweep needs at least two points and stops at a million".into(),
         )
     };
