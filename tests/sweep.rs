@@ -405,3 +405,41 @@ fn bad_input_is_refused_with_a_caret_and_a_hint() {
         "varied twice",
     );
 }
+
+#[test]
+fn citation_sweep_as_text() {
+    let out = telescope(&[
+        "sweep",
+        "examples/citation_growth.rule",
+        "--vary",
+        "rho=0.05..0.95",
+        "--points",
+        "7",
+        "--digits",
+        "12",
+        "--quantities",
+        "rate,theta,prefactor,total,mean,variance,n(5)",
+    ]);
+    assert!(out.status.success());
+    insta::assert_snapshot!(String::from_utf8(out.stdout).unwrap());
+}
+
+#[test]
+fn help_desk_sweep_as_json() {
+    let out = telescope(&[
+        "sweep",
+        "examples/help_desk_queue.rule",
+        "--vary",
+        "lambda=1..4",
+        "--points",
+        "2",
+        "--param",
+        "mu=2",
+        "--digits",
+        "15",
+        "--format",
+        "json",
+    ]);
+    assert!(out.status.success());
+    insta::assert_snapshot!(String::from_utf8(out.stdout).unwrap());
+}
