@@ -47,6 +47,10 @@ enum Command {
         /// Treat the sequence as a probability distribution: a(b) so that the total is 1.
         #[arg(long)]
         normalize: bool,
+        /// A probability under the normalised law: "k >= K", "k <= K", "K1 <= k <= K2",
+        /// "k = K", bounds in the parameters (repeatable).
+        #[arg(long = "prob", value_name = "EVENT", allow_hyphen_values = true)]
+        prob: Vec<String>,
     },
     /// Direct products next to the closed form, with their relative difference.
     Table {
@@ -134,6 +138,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             terms,
             digits,
             normalize,
+            prob,
         } => {
             if standalone && !matches!(format, SolveFormat::Latex) {
                 return Err(Error::Usage(
@@ -155,6 +160,8 @@ fn run(cli: Cli) -> Result<String, Error> {
             let model = session::load_model(&input)?;
             let values = session::parse_values_for(&model.params, &params)?;
             let solved = session::run_solve_model(&input, &model, &values)?;
+            let events = session::parse_events(&model, &prob)?;
+            let probabilities = telescope::probability::probabilities(&solved, &events, digits);
             let to_error = |diagnostic| Error::Input {
                 input: input.clone(),
                 diagnostic,
@@ -186,6 +193,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                 sum: sum.as_ref(),
                 analysis: analysis.as_ref(),
                 digits,
+                probabilities: &probabilities,
             };
             Ok(render::solve_report(
                 &model, &solved, &report, format, layout,

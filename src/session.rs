@@ -305,3 +305,25 @@ fn numeric_tail(
         method: total_of_piece.method.clone(),
     })
 }
+
+/// `--prob` events, read against the model's index and parameters; messages point into the
+/// event text.
+pub fn parse_events(
+    model: &Model,
+    texts: &[String],
+) -> Result<Vec<crate::probability::Event>, Error> {
+    texts
+        .iter()
+        .map(|text| {
+            crate::probability::parse_event(text, &model.index, &model.params).map_err(
+                |diagnostic| Error::Input {
+                    input: Input {
+                        name: "--prob".into(),
+                        text: text.clone(),
+                    },
+                    diagnostic,
+                },
+            )
+        })
+        .collect()
+}
