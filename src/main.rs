@@ -6,6 +6,7 @@ use clap::{Parser, Subcommand, ValueEnum};
 
 use telescope::analysis::{analyse, AnalysisRequest};
 use telescope::piecewise::build_piecewise_table;
+use telescope::probability::analyse_model;
 use telescope::render;
 use telescope::session::{self, Error};
 use telescope::table::{build_normalized_table, build_table, TableRequest};
@@ -166,23 +167,16 @@ fn run(cli: Cli) -> Result<String, Error> {
                 input: input.clone(),
                 diagnostic,
             };
-            let (sum, analysis) = if model.is_piecewise() {
-                if normalize {
-                    return Err(Error::Usage(
-                        "--normalize is not available for piecewise models yet; without --normalize, solve prints the exact sum over the pieces".into(),
-                    ));
-                }
-                (session::model_sum(&model, &solved, digits)?, None)
+            let request = AnalysisRequest {
+                terms,
+                digits,
+                normalize,
+            };
+            let analysis = if model.is_piecewise() {
+                analyse_model(&solved, &request).map_err(to_error)?
             } else {
-                let request = AnalysisRequest {
-                    terms,
-                    digits,
-                    normalize,
-                };
                 let piece = &solved.pieces[0];
-                let analysis =
-                    analyse(&piece.problem, &piece.solution, &request).map_err(to_error)?;
-                (None, Some(analysis))
+                analyse(&piece.problem, &piece.solution, &request).map_err(to_error)?
             };
             let format = match format {
                 SolveFormat::Text => render::SolveFormat::Text,
@@ -190,8 +184,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                 SolveFormat::Json => render::SolveFormat::Json,
             };
             let report = render::SolveReport {
-                sum: sum.as_ref(),
-                analysis: analysis.as_ref(),
+                analysis: Some(&analysis),
                 digits,
                 probabilities: &probabilities,
             };

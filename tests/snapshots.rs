@@ -66,7 +66,7 @@ fn piecewise_snapshots(name: &str, model: &telescope::model::Model) {
     let solved = solve_model(model, &values).unwrap_or_else(|e| panic!("{name}: {e}"));
     insta::assert_snapshot!(
         format!("{name}_text"),
-        render::piecewise_text(model, &solved, None)
+        render::piecewise_text(model, &solved)
     );
     insta::assert_snapshot!(
         format!("{name}_latex"),
@@ -74,6 +74,6 @@ fn piecewise_snapshots(name: &str, model: &telescope::model::Model) {
     );
     insta::assert_json_snapshot!(
         format!("{name}_json"),
-        render::piecewise_json(model, &solved, None)
+        render::piecewise_json(model, &solved)
     );
 }

@@ -127,8 +127,15 @@ pub struct ResolvedPiece {
 }
 
 impl Model {
+    /// Several pieces, or one cut at an upper bound (a finite state space): such models are
+    /// solved, summed and tabulated piece by piece.
     pub fn is_piecewise(&self) -> bool {
-        self.pieces.len() > 1
+        self.pieces.len() > 1 || self.pieces.last().is_some_and(|p| p.last.is_some())
+    }
+
+    /// The last index of a finite state space cut at an upper bound, as written.
+    pub fn capacity(&self) -> Option<&RatFunc> {
+        self.pieces.last().and_then(|p| p.last.as_ref())
     }
 
     pub fn param(&self, name: &str) -> Option<&Param> {

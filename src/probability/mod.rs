@@ -26,9 +26,11 @@
 //! ```
 
 mod mass;
+mod model;
 mod spec;
 
 pub use mass::{MassError, Moments, Sum, Support, MAX_EXACT_STEPS};
+pub use model::{analyse_model, join_factor};
 pub use spec::{parse_event, Event, EventBound, IndexRange};
 
 use rug::Float;
@@ -87,6 +89,15 @@ impl<'a> Law<'a> {
     /// Σ k^j a(k) over the whole support with a(b) = 1.
     pub fn total(&self) -> Result<&Moments, &MassError> {
         self.total.as_ref()
+    }
+
+    /// Σ k^j a(k) over `first..=last` (either open) with a(b) = 1.
+    pub fn part(
+        &self,
+        first: Option<&num_bigint::BigInt>,
+        last: Option<&num_bigint::BigInt>,
+    ) -> Result<Moments, MassError> {
+        self.support.moments(first, last)
     }
 
     /// The last index of the support, `None` when it is infinite.

@@ -4,7 +4,7 @@
 
 use crate::analysis::Analysis;
 use crate::model::Model;
-use crate::piecewise::{ModelSolution, PiecewiseSum};
+use crate::piecewise::ModelSolution;
 use crate::probability::Probability;
 
 use super::{
@@ -14,11 +14,10 @@ use super::{
     solve_text_with, SolveLayout,
 };
 
-/// What was computed beyond the closed form: the exact sum over the pieces of a piecewise
-/// model, or the analysis (tail, total, moments) of a single rule.
+/// What was computed beyond the closed form: the analysis (tail, total, moments) of a single
+/// rule or of a whole piecewise model, and the probabilities asked for.
 #[derive(Clone, Copy, Default)]
 pub struct SolveReport<'a> {
-    pub sum: Option<&'a PiecewiseSum>,
     pub analysis: Option<&'a Analysis>,
     /// The digits the analysis was asked for (reported in JSON).
     pub digits: u32,
@@ -47,7 +46,6 @@ pub fn solve_report(
     layout: SolveLayout,
 ) -> String {
     let first = &solved.pieces[0].problem;
-    let sum = report.sum;
     let analysis_text_part = report.analysis.map(analysis_text).unwrap_or_default()
         + &probabilities_text(report.probabilities);
     let analysis_latex_part = report.analysis.map(analysis_latex).unwrap_or_default()
@@ -61,10 +59,16 @@ pub fn solve_report(
     };
     if model.is_piecewise() {
         return match format {
-            SolveFormat::Text => piecewise_text(model, solved, sum) + &analysis_text_part,
+            SolveFormat::Text => piecewise_text(model, solved) + &analysis_text_part,
             SolveFormat::Latex => wrap(piecewise_latex(model, solved) + &analysis_latex_part),
             SolveFormat::Json => {
-                let mut json = piecewise_json(model, solved, sum);
+                let mut json = piecewise_json(model, solved);
+                if let (Some(analysis), serde_json::Value::Object(fields)) =
+                    (report.analysis, &mut json)
+                {
+                    fields.insert("digits".into(), report.digits.to_string().into());
+                    fields.extend(analysis_json(analysis));
+                }
                 json["probabilities"] = probabilities_json(report.probabilities);
                 pretty(&json)
             }
