@@ -14,7 +14,7 @@ use crate::analysis::{
     analyse, Analysis, AnalysisRequest, Finiteness, Moment, Normalization, NumberReport, TotalParts,
 };
 use crate::diagnostic::Diagnostic;
-use crate::numeric::{decimal, to_rug_rational};
+use crate::numeric::decimal;
 use crate::piecewise::ModelSolution;
 use crate::ratio::{Orientation, Ratio};
 
@@ -143,15 +143,13 @@ pub fn analyse_model(
         let mut t = p.tail?;
         let join = join_factor(solved)?;
         t.law.prefactor_term = t.law.prefactor_term.scale(&join);
-        let join_value = join.eval(values).ok();
-        if let (Some(numbers), Some(j)) = (&mut t.numbers, &join_value) {
-            let mut c = Float::parse(&numbers.prefactor)
-                .ok()
-                .map(|p| Float::with_val(t_prec(request.digits), p))?;
-            c *= to_rug_rational(j);
-            let inverse_total = base_value_float(&normalization, request);
-            if let Some(inv) = &inverse_total {
-                c *= inv;
+        if let Some(numbers) = &mut t.numbers {
+            // C = join · C_piece evaluated afresh from its exact term (Gamma values, powers).
+            let prec = t_prec(request.digits);
+            let mut c = t.law.prefactor_term.to_float(values, prec)?;
+            // Under --normalize C/total, when the total is exact (the formula says so too).
+            if let Some(q) = exact_inverse_total(&normalization, request) {
+                c *= q;
             }
             numbers.prefactor = decimal::float_to_decimal(&c, request.digits);
         }
@@ -185,15 +183,13 @@ fn t_prec(digits: u32) -> u32 {
     crate::numeric::bits_for_digits(digits + 10) + crate::numeric::GUARD_BITS
 }
 
-/// 1/total as a float when `--normalize` found one.
-fn base_value_float(n: &Normalization, request: &AnalysisRequest) -> Option<Float> {
+/// 1/total when `--normalize` found it as an exact rational.
+fn exact_inverse_total(n: &Normalization, request: &AnalysisRequest) -> Option<rug::Rational> {
     if !request.normalize {
         return None;
     }
     let report = n.base_value.as_ref()?.1.as_ref()?;
-    Float::parse(&report.value)
-        .ok()
-        .map(|p| Float::with_val(t_prec(request.digits), p))
+    report.exact.as_ref()?.parse::<rug::Rational>().ok()
 }
 
 /// a(b')/a(b) with b' the last piece's base: the product of the earlier pieces' ratios, as a

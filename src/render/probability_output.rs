@@ -115,7 +115,7 @@ pub fn probabilities_latex(ps: &[Probability]) -> String {
         return String::new();
     }
     let mut out =
-        String::from("\\paragraph{Probabilities} Under the normalised law:\n\\begin{align*}\n");
+        String::from("\\noindent Probabilities under the normalised law:\n\\begin{align*}\n");
     let lines: Vec<String> = ps
         .iter()
         .map(|p| {
