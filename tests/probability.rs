@@ -252,3 +252,135 @@ fn solve_prints_probabilities_in_json_and_text() {
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("--prob") && err.contains('^'), "{err}");
 }
+
+fn binomial(n: u32, k: u32) -> Rational {
+    factorial(n) / factorial(k) / factorial(n - k)
+}
+
+fn exact_of(p: &Probability) -> Rational {
+    let v = p
+        .value
+        .as_ref()
+        .unwrap_or_else(|| panic!("{}: {:?}", p.event.text, p.note));
+    v.exact.as_ref().expect("exact").parse().unwrap()
+}
+
+/// Erlang's loss system M/M/c/c: c servers and no waiting room (births stop at c − 1).
+const ERLANG_B_MODEL: &str = "param A > 0\nparam c integer >= 1\n\
+     birth(k) = A for 0 <= k <= c - 1\ndeath(k) = k mu\nparam mu > 0";
+
+#[test]
+fn erlang_b_blocking_of_the_loss_system() {
+    // Erlang's B formula (Erlang 1917; e.g. Kleinrock 1975, Vol. 1, §3.6, from memory):
+    // B(c, A) = (A^c/c!) / Σ_{k=0..c} A^k/k!, the probability that all c servers are busy.
+    for c in 1..=10u32 {
+        for a in [q(1, 2), q(3, 1), Q::from_integer((2 * c).into())] {
+            let vals = values(&[("A", a.clone()), ("c", q(c as i64, 1)), ("mu", q(1, 1))]);
+            let ps = answer(ERLANG_B_MODEL, &vals, &["k = c", "k > c"]);
+            let ar = to_rug(&a);
+            let top = ar.clone().pow(c) / factorial(c);
+            let all: Rational = (0..=c)
+                .map(|k| ar.clone().pow(k) / factorial(k))
+                .fold(Rational::new(), |s, t| s + t);
+            assert_exact(&ps[0], &(top / all));
+            // Nothing beyond the last state.
+            assert_exact(&ps[1], &Rational::new());
+        }
+    }
+    // A ratio rule cut by a range says the same: a(k)/a(k−1) = A/k for 1 <= k <= c.
+    let vals = values(&[("A", q(3, 1)), ("c", q(4, 1))]);
+    let ps = answer(
+        "param A > 0\nparam c integer >= 1\na(k)/a(k-1) = A/k for 1 <= k <= c",
+        &vals,
+        &["k = c"],
+    );
+    // B(4, 3) = (81/24)/(1 + 3 + 9/2 + 9/2 + 27/8) = 27/131 (by hand from the formula above)
+    assert_exact(&ps[0], &Rational::from((27, 131)));
+}
+
+#[test]
+fn finite_waiting_room_single_server_blocking() {
+    // M/M/1/K: P(k = K) = (1 − ρ)ρ^K/(1 − ρ^(K+1)) (e.g. Kleinrock 1975, Vol. 1, §3.6, from
+    // memory; the truncated geometric law, common practice), and 1/(K+1) at ρ = 1.
+    let model =
+        "param rho > 0\nparam K integer >= 1\nbirth(k) = rho for 0 <= k <= K-1\ndeath(k) = 1";
+    for big_k in [1u32, 2, 5, 10, 40] {
+        for rho in [q(1, 3), q(9, 10), q(1, 1), q(5, 2)] {
+            let vals = values(&[("rho", rho.clone()), ("K", q(big_k as i64, 1))]);
+            let ps = answer(model, &vals, &["k = K", "k >= K + 1"]);
+            let r = to_rug(&rho);
+            let expected = if rho == q(1, 1) {
+                Rational::from((1, big_k + 1))
+            } else {
+                (Rational::from(1) - r.clone()) * r.clone().pow(big_k)
+                    / (Rational::from(1) - r.clone().pow(big_k + 1))
+            };
+            assert_exact(&ps[0], &expected);
+            assert_exact(&ps[1], &Rational::new());
+        }
+    }
+}
+
+#[test]
+fn engset_blocking_of_a_finite_source_loss_system() {
+    // N sources, each idle one calling at rate beta; c servers at rate mu; no queue:
+    // birth(k) = (N − k) beta for k < c, death(k) = k mu. Engset (1918), e.g. Kleinrock 1975,
+    // Vol. 1, §3.9 (from memory): time congestion E = C(N,c) a^c / Σ_{k=0..c} C(N,k) a^k with
+    // a = beta/mu, and the blocking seen by arrivals is the same formula with N − 1 sources.
+    let model = "param N integer >= 1\nparam c integer >= 1\nparam beta, mu > 0\n\
+                 birth(k) = (N - k) beta for 0 <= k <= c - 1\ndeath(k) = k mu";
+    for (n, c, a) in [
+        (10u32, 3u32, q(1, 5)),
+        (20, 5, q(1, 10)),
+        (7, 6, q(2, 1)),
+        (30, 10, q(1, 3)),
+    ] {
+        let engset = |sources: u32| -> Rational {
+            let ar = to_rug(&a);
+            let term = |k: u32| binomial(sources, k) * ar.clone().pow(k);
+            let all: Rational = (0..=c).map(term).fold(Rational::new(), |s, t| s + t);
+            term(c) / all
+        };
+        for sources in [n, n - 1] {
+            let vals = values(&[
+                ("N", q(sources as i64, 1)),
+                ("c", q(c as i64, 1)),
+                ("beta", a.clone()),
+                ("mu", q(1, 1)),
+            ]);
+            let ps = answer(model, &vals, &["k = c"]);
+            assert_eq!(exact_of(&ps[0]), engset(sources), "N = {sources}, c = {c}");
+        }
+    }
+}
+
+#[test]
+fn a_last_ratio_piece_with_an_upper_bound_ends_the_support() {
+    // M/M/c/K: π(k) ∝ A^k/k! for k ≤ c and A^c/c!·(A/c)^(k−c) for c < k ≤ K (e.g. Gross &
+    // Harris, Fundamentals of Queueing Theory, the M/M/c/K section, from memory).
+    let model = "param A > 0\nparam c, K integer >= 1\n\
+                 p(k)/p(k-1) = A/k for 1 <= k <= c\np(k)/p(k-1) = A/c for c < k <= K";
+    let (c, big_k) = (3u32, 7u32);
+    let a = Rational::from((5, 2));
+    let weight = |k: u32| -> Rational {
+        if k <= c {
+            a.clone().pow(k) / factorial(k)
+        } else {
+            a.clone().pow(c) / factorial(c) * (a.clone() / c).pow(k - c)
+        }
+    };
+    let all: Rational = (0..=big_k).map(weight).fold(Rational::new(), |s, t| s + t);
+    let vals = values(&[("A", q(5, 2)), ("c", q(3, 1)), ("K", q(7, 1))]);
+    let ps = answer(model, &vals, &["k = K", "k >= c", "k > K"]);
+    assert_exact(&ps[0], &(weight(big_k) / all.clone()));
+    let waiting: Rational = (c..=big_k).map(weight).fold(Rational::new(), |s, t| s + t);
+    assert_exact(&ps[1], &(waiting / all));
+    assert_exact(&ps[2], &Rational::new());
+    // The whole-model analysis knows the support is finite: no tail law, exact moments.
+    let m = build_model(model).unwrap();
+    let solved = solve_model(&m, &vals).unwrap();
+    let a = telescope::probability::analyse_model(&solved, &Default::default()).unwrap();
+    assert!(a.tail.is_none());
+    assert!(a.normalization.finite_support);
+    assert!(a.mean.value.unwrap().exact.is_some());
+}
