@@ -159,6 +159,12 @@ impl Model {
                 None => None,
             };
             if let Some(l) = &last {
+                // A bounded last piece may be empty (K = c: no room beyond the c-th state);
+                // the piece before it then ends the state space.
+                let is_last = std::ptr::eq(piece, self.pieces.last().expect("non-empty"));
+                if is_last && !out.is_empty() && l + 1 == first {
+                    continue;
+                }
                 if *l < first {
                     return Err(Diagnostic::new(
                         format!("with these values this piece is empty ({first} ≤ k ≤ {l})"),
