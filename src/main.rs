@@ -6,7 +6,7 @@ use clap::{Parser, Subcommand, ValueEnum};
 
 use telescope::analysis::{analyse, AnalysisRequest};
 use telescope::piecewise::build_piecewise_table;
-use telescope::probability::analyse_model;
+use telescope::probability::{analyse_model, normalized_piecewise_table};
 use telescope::render;
 use telescope::session::{self, Error};
 use telescope::table::{build_normalized_table, build_table, TableRequest};
@@ -225,14 +225,13 @@ fn run(cli: Cli) -> Result<String, Error> {
                 diagnostic,
             };
             if normalize {
-                if model.is_piecewise() {
-                    return Err(Error::Usage(
-                        "--normalize is not available for piecewise tables yet".into(),
-                    ));
+                let table = if model.is_piecewise() {
+                    normalized_piecewise_table(&solved, &request, model.pieces[0].span.clone())
+                } else {
+                    let piece = &solved.pieces[0];
+                    build_normalized_table(&piece.problem, &piece.solution, &request)
                 }
-                let piece = &solved.pieces[0];
-                let table = build_normalized_table(&piece.problem, &piece.solution, &request)
-                    .map_err(to_error)?;
+                .map_err(to_error)?;
                 return Ok(match format {
                     TableFormat::Text => render::analysis_output::normalized_table_text(&table),
                     TableFormat::Csv => render::table_csv(&table.table),

@@ -384,3 +384,58 @@ fn a_last_ratio_piece_with_an_upper_bound_ends_the_support() {
     assert!(a.normalization.finite_support);
     assert!(a.mean.value.unwrap().exact.is_some());
 }
+
+#[test]
+fn piecewise_tables_normalise_and_stop_at_the_last_state() {
+    // M/M/2/4 with A = 3: weights 1, 3, 9/2, 27/4, 81/8 (the M/M/c/K law above), total 203/8,
+    // so p(0) = 8/203; beyond K = 4 every row is 0.
+    let out = common::telescope(&[
+        "table",
+        "examples/barber_chairs.rule",
+        "--param",
+        "c=2",
+        "--param",
+        "K=4",
+        "--param",
+        "A=3",
+        "--k",
+        "0..6",
+        "--normalize",
+        "--format",
+        "json",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(json["base_value"], "8/203");
+    assert_eq!(json["normalization"]["total_error_bound"], "0");
+    assert_eq!(json["rows"][5]["direct"], "0");
+    assert_eq!(json["rows"][6]["closed"], "0");
+    let sum: f64 = json["normalization"]["rows_sum"]
+        .as_str()
+        .unwrap()
+        .parse()
+        .unwrap();
+    assert!((sum - 1.0).abs() < 1e-12, "{sum}");
+    // An open model: M/M/3 with load 2 has p(0) = 1/9 (Kleinrock 1975, eq. 3.39).
+    let out = common::telescope(&[
+        "table",
+        "examples/repair_counter.rule",
+        "--param",
+        "c=3",
+        "--param",
+        "lambda=2",
+        "--param",
+        "mu=1",
+        "--k",
+        "0..3",
+        "--normalize",
+        "--format",
+        "json",
+    ]);
+    let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(json["base_value"], "1/9");
+}

@@ -138,6 +138,10 @@ impl<'a> PiecewiseEvaluator<'a> {
     /// a(k) from the closed forms; `k` must not lie before the base term.
     pub fn value(&self, k: &BigInt) -> Result<LogReal, ClosedValueError> {
         let Some(i) = self.solution.piece_at(k) else {
+            // Past the end of a finite state space a(k) = 0; before the base term, a(b).
+            if k > &self.solution.base_index() {
+                return Ok(LogReal::zero(self.joins[0].ln_abs.prec()));
+            }
             return Ok(self.joins[0].clone());
         };
         let piece = &self.solution.pieces[i];

@@ -30,7 +30,7 @@ mod model;
 mod spec;
 
 pub use mass::{MassError, Moments, Sum, Support, MAX_EXACT_STEPS};
-pub use model::{analyse_model, join_factor};
+pub use model::{analyse_model, join_factor, normalized_piecewise_table};
 pub use spec::{parse_event, Event, EventBound, IndexRange};
 
 use rug::Float;

@@ -257,6 +257,41 @@ fn total_parts(law: &Law, solved: &ModelSolution, digits: u32) -> Option<TotalPa
     })
 }
 
+/// `table --normalize` for a piecewise or finite model: a(b) = 1/total from the whole
+/// model's sum (exact when the total is), then the chained table from it.
+pub fn normalized_piecewise_table(
+    solved: &ModelSolution,
+    request: &crate::table::TableRequest,
+    span: crate::diagnostic::Span,
+) -> Result<crate::table::NormalizedTable, Diagnostic> {
+    let fail = |why: String| Diagnostic::new(why, span.clone());
+    let law = Law::new(solved, request.digits + 5);
+    let total = law.total().map_err(|e| {
+        fail(match e {
+            MassError::Divergent(why) => format!("--normalize: the total diverges ({why})"),
+            MassError::Unsupported(why) => {
+                format!("--normalize: the total cannot be computed: {why}")
+            }
+        })
+    })?;
+    let s0 = total.sums[0]
+        .as_ref()
+        .ok_or_else(|| fail("--normalize: the total diverges".into()))?;
+    let one = Sum::exact(rug::Rational::from(1), s0.value.prec());
+    let base = one
+        .ratio(s0)
+        .ok_or_else(|| fail("--normalize: the total is zero".into()))?;
+    let bounded = crate::analysis::Bounded {
+        value: base.value,
+        error: base.error,
+        exact: base.exact,
+    };
+    let method = format!("1 / total over the pieces ({})", total.method.join("; "));
+    crate::table::normalized_table_with(&bounded, method, request, |r| {
+        crate::piecewise::build_piecewise_table(solved, r, span.clone())
+    })
+}
+
 fn to_report(s: &Sum, method: String, check: Option<&Float>, digits: u32) -> NumberReport {
     match &s.exact {
         Some(q) => NumberReport {
