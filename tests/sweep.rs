@@ -107,6 +107,17 @@ const CASES: &[(&str, &str, &[&str])] = &[
     ),
     ("examples/recipe_tags.rule", "rho=0.05..0.85", &[]),
     ("examples/seed_clusters.rule", "q=0.1..0.9", &["r=5/2"]),
+    // piecewise (M/M/c): stable for λ < c·μ = 3, so the sweep crosses into divergence
+    (
+        "examples/repair_counter.rule",
+        "lambda=0.5..4.5",
+        &["mu=3/2", "c=2"],
+    ),
+    (
+        "examples/repair_counter.rule",
+        "c=1..5",
+        &["mu=1", "lambda=5/2"],
+    ),
 ];
 
 const KEYS: [&str; 6] = ["rate", "theta", "prefactor", "total", "mean", "variance"];
@@ -135,6 +146,61 @@ fn sweep_values_equal_single_solve_runs_at_five_points_of_each_example() {
         assert_eq!(points.len(), 5, "{file}");
         for point in points {
             compare_with_solve(file, point, fixed, &KEYS);
+        }
+    }
+}
+
+#[test]
+fn probabilities_equal_solve_prob() {
+    for (file, vary, fixed) in [
+        ("examples/citation_growth.rule", "rho=0.1..0.9", vec![]),
+        (
+            "examples/repair_counter.rule",
+            "lambda=0.5..2.5",
+            vec!["mu=1", "c=2"],
+        ),
+    ] {
+        let mut args = vec![
+            "sweep",
+            file,
+            "--vary",
+            vary,
+            "--points",
+            "5",
+            "--format",
+            "json",
+            "--quantities",
+            "P(k >= 3),P(1 <= k <= 2)",
+        ];
+        for p in &fixed {
+            args.extend(["--param", p]);
+        }
+        let sweep = json(&args);
+        for point in sweep["points"].as_array().unwrap() {
+            let (name, v) = point["at"].as_object().unwrap().iter().next().unwrap();
+            let value = format!("{name}={}", v["exact"].as_str().unwrap());
+            let mut args = vec![
+                "solve",
+                file,
+                "--format",
+                "json",
+                "--param",
+                &value,
+                "--prob",
+                "k >= 3",
+                "--prob",
+                "1 <= k <= 2",
+            ];
+            for p in &fixed {
+                args.extend(["--param", p]);
+            }
+            let solve = json(&args);
+            for (i, key) in ["P(k>=3)", "P(1<=k<=2)"].iter().enumerate() {
+                let single = &solve["probabilities"][i];
+                let swept = &point["values"][*key];
+                assert_eq!(swept["value"], single["value"], "{file} {value} {key}");
+                assert_eq!(swept["exact"], single["exact"], "{file} {value} {key}");
+            }
         }
     }
 }

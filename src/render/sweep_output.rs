@@ -28,7 +28,7 @@ fn title(q: &Quantity, sweep: &Sweep) -> String {
         Quantity::Mean => "mean".into(),
         Quantity::Variance => "variance".into(),
         Quantity::Term(k) => format!("{}({k})", sweep.sequence),
-        Quantity::TailProbability(k) => format!("P({} ≥ {k})", sweep.index),
+        Quantity::Probability(e) => super::probability_output::event_strings(e).0,
     }
 }
 
@@ -187,8 +187,10 @@ pub fn sweep_text(sweep: &Sweep) -> String {
         .map(|p| {
             let mut row: Vec<String> = p.at.iter().map(exact_text).collect();
             row.extend(p.cells.iter().map(|c| match c {
-                // exact values as exact text (1, -39/19, 1.95), others to the digits
-                Cell::Value(Number { exact: Some(q), .. }) => exact_text(q),
+                // short exact values as exact text (1, -39/19, 1.95), others to the digits
+                Cell::Value(Number { exact: Some(q), .. }) if exact_text(q).len() <= 16 => {
+                    exact_text(q)
+                }
                 Cell::Value(n) => n.value.clone(),
                 Cell::Missing(Missing::Infinite { .. }) => "∞".into(),
                 Cell::Missing(_) => "—".into(),

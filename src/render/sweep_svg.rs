@@ -33,7 +33,7 @@ fn title(q: &Quantity, sweep: &Sweep) -> String {
         Quantity::Mean => "mean".into(),
         Quantity::Variance => "variance".into(),
         Quantity::Term(k) => format!("{}({k})", sweep.sequence),
-        Quantity::TailProbability(k) => format!("P({} ≥ {k})", sweep.index),
+        Quantity::Probability(e) => super::probability_output::event_strings(e).0,
     }
 }
 

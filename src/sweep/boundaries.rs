@@ -19,7 +19,7 @@ use std::fmt;
 
 use num_traits::{Signed, Zero};
 
-use super::{Cell, Missing, Plan, Point, Quantity, SweepRequest};
+use super::{Cell, Missing, Plan, Point, Quantity, RulePlan, SweepRequest};
 use crate::algebra::{rational_roots, RatFunc, Q};
 use crate::analysis::{Inequality, Verdict};
 
@@ -179,7 +179,10 @@ fn exact_boundaries(
     to: &Q,
     others: &BTreeMap<String, Q>,
 ) -> Vec<Found> {
-    let requirements = plan.requirements(moment);
+    let Some(rule) = &plan.rule else {
+        return Vec::new();
+    };
+    let requirements = rule.requirements(moment);
     // (root, the requirement it belongs to)
     let mut exact: Vec<(Q, Inequality)> = Vec::new();
     let mut brackets: Vec<(Q, Q, Inequality)> = Vec::new();
@@ -207,7 +210,7 @@ fn exact_boundaries(
     let state = |x: &Q| -> State {
         let mut values = others.clone();
         values.insert(name.to_string(), x.clone());
-        state_at(plan, moment, &values)
+        state_at(rule, moment, &values)
     };
     // Every critical point, in order, to find the neighbours of each.
     let mut marks: Vec<Q> = exact.iter().map(|(q, _)| q.clone()).collect();
@@ -291,7 +294,7 @@ fn critical_functions(
 }
 
 /// Finite, infinite or invalid at a point (every parameter has a value).
-pub fn state_at(plan: &Plan, moment: usize, values: &BTreeMap<String, Q>) -> State {
+pub fn state_at(plan: &RulePlan, moment: usize, values: &BTreeMap<String, Q>) -> State {
     let ratio = &plan.problem.ratio;
     if ratio.constant.eval(values).is_err()
         || ratio.factors.iter().any(|f| f.shift.eval(values).is_err())

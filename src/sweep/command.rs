@@ -85,7 +85,7 @@ pub fn run_command(args: SweepArgs) -> Result<String, Error> {
         diagnostic,
     })?;
     if let Some(text) = &args.quantities {
-        spec::check_terms(&quantities, &plan.problem.base_index(), text)?;
+        spec::check_terms(&quantities, &plan.base_index, text)?;
     }
     let request = SweepRequest::new(axes, quantities, args.digits);
     let mode = if args.quiet {

@@ -48,7 +48,7 @@ pub use spec::{Axis, Quantity};
 /// The symbolic work, done once: the rule solved and analysed with the varied parameters
 /// left as symbols (the fixed ones substituted where the solver uses them).
 #[derive(Clone, Debug)]
-pub struct Plan {
+pub struct RulePlan {
     pub problem: Problem,
     pub solution: Solution,
     pub analysis: Analysis,
@@ -56,24 +56,10 @@ pub struct Plan {
     /// outside the model.
     pub conditions: Vec<Condition>,
     pub form: RisingForm,
-    pub fixed: BTreeMap<String, Q>,
 }
 
-impl Plan {
-    /// Solves and analyses `model` with the `fixed` values. Piecewise models are refused:
-    /// their pieces depend on the breakpoint's value.
-    pub fn new(model: &Model, fixed: &BTreeMap<String, Q>) -> Result<Plan, Diagnostic> {
-        if model.is_piecewise() {
-            return Err(Diagnostic::new(
-                format!(
-                    "sweep works on a model with one rule; this one has {} pieces",
-                    model.pieces.len()
-                ),
-                model.pieces[1].span.clone(),
-            )
-            .with_help("run `telescope solve --param …` at each value, or sweep one piece's rule on its own"));
-        }
-        let problem = model.resolve(fixed)?.remove(0).problem;
+impl RulePlan {
+    fn new(problem: Problem, fixed: &BTreeMap<String, Q>) -> Result<RulePlan, Diagnostic> {
         let solution = solve(&problem, fixed)?;
         let conditions = rule_conditions(&problem, &solution.ratio, fixed)?;
         // Numbers are per point; this pass is symbolic only (no digits are produced).
@@ -84,13 +70,12 @@ impl Plan {
         };
         let analysis = analyse(&problem, &solution, &request)?;
         let form = RisingForm::from_ratio(&problem.ratio);
-        Ok(Plan {
+        Ok(RulePlan {
             problem,
             solution,
             analysis,
             conditions,
             form,
-            fixed: fixed.clone(),
         })
     }
 
@@ -101,6 +86,50 @@ impl Plan {
             1 => &self.analysis.mean.requirements,
             _ => &self.analysis.variance.requirements,
         }
+    }
+}
+
+/// What a sweep knows before its first point.
+#[derive(Clone, Debug)]
+pub struct Plan {
+    pub model: Model,
+    pub fixed: BTreeMap<String, Q>,
+    pub base_index: BigInt,
+    /// A one-rule model: its plan, from which every point is evaluated. A piecewise model:
+    /// the plan of its open last piece (when the breakpoints are fixed), which governs the
+    /// finiteness of the total, mean and variance and so gives the exact boundaries; its
+    /// points are solved one by one, since the pieces are joined from the values.
+    pub rule: Option<RulePlan>,
+    pub piecewise: bool,
+}
+
+impl Plan {
+    /// Solves and analyses `model` with the `fixed` values, once.
+    pub fn new(model: &Model, fixed: &BTreeMap<String, Q>) -> Result<Plan, Diagnostic> {
+        let base_index = model.base_index(fixed)?;
+        if model.is_piecewise() {
+            let last = model
+                .resolve(fixed)
+                .ok()
+                .and_then(|pieces| pieces.into_iter().last())
+                .filter(|p| p.last_index.is_none());
+            let rule = last.and_then(|p| RulePlan::new(p.problem, fixed).ok());
+            return Ok(Plan {
+                model: model.clone(),
+                fixed: fixed.clone(),
+                base_index,
+                rule,
+                piecewise: true,
+            });
+        }
+        let problem = model.resolve(fixed)?.remove(0).problem;
+        Ok(Plan {
+            model: model.clone(),
+            fixed: fixed.clone(),
+            base_index,
+            rule: Some(RulePlan::new(problem, fixed)?),
+            piecewise: false,
+        })
     }
 }
 
@@ -279,9 +308,9 @@ pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
     }
     let boundaries = boundaries::find(plan, request, &out_points);
     Sweep {
-        sequence: plan.problem.sequence.clone(),
-        index: plan.problem.index.clone(),
-        base_index: plan.problem.base_index(),
+        sequence: plan.model.sequence.clone(),
+        index: plan.model.index.clone(),
+        base_index: plan.base_index.clone(),
         axes: request.axes.clone(),
         fixed: plan.fixed.clone(),
         quantities: request.quantities.clone(),

@@ -8,12 +8,18 @@ use num_bigint::BigInt;
 use num_traits::Zero;
 use rug::Float;
 
-use super::{Cell, Missing, Number, Plan, Quantity};
+use super::{Cell, Missing, Number, Plan, Quantity, RulePlan};
 use crate::algebra::Q;
-use crate::analysis::at_point::{analyse_at, PointAnalysis, PointRequest};
+use crate::analysis::at_point::{analyse_at, PointAnalysis, PointRequest, PointTail};
+use crate::analysis::AnalysisRequest;
 use crate::analysis::{Finiteness, Moment, NumberReport, Verdict};
 use crate::numeric::{decimal, to_rug_integer, to_rug_rational, LogReal, RunningProduct};
+use crate::piecewise::solve_model;
+use crate::piecewise::{build_piecewise_table, exact_terms, ModelSolution};
+use crate::probability::analyse_model;
+use crate::probability::{Event, Law};
 use crate::solve::{Condition, ConditionKind};
+use crate::table::TableRequest;
 use crate::table::{numeric_ratio, DirectSource, EXACT_STEPS};
 
 /// The cells of one point, and the cross-checks made there (quantity, relative difference).
@@ -29,37 +35,72 @@ pub(super) fn evaluate(
     for (name, v) in names.iter().zip(at) {
         values.insert(name.to_string(), v.clone());
     }
-    let problem = &plan.problem;
-    let end = crate::analysis::at_point::support_end(problem, &values);
-    if let Some((condition, why)) = failed_condition(plan, &values, end.as_ref()) {
-        let cell = Cell::Missing(Missing::Invalid(condition, why));
+    // A piecewise model, and any model asked for probabilities, is solved at the point: the
+    // pieces are joined from the values, and the probability engine works on a solved model.
+    let wants_probabilities = quantities
+        .iter()
+        .any(|q| matches!(q, Quantity::Probability(_)));
+    let solved = (plan.piecewise || wants_probabilities).then(|| solve_model(&plan.model, &values));
+    if let Some(Err(d)) = &solved {
+        let cell = Cell::Missing(Missing::Unavailable(format!(
+            "outside the model: {}",
+            d.message
+        )));
         return (vec![cell; quantities.len()], Vec::new());
     }
-    let mut moments = [false; 3];
-    for q in quantities {
-        if let Some(j) = q.moment() {
-            moments[j] = true;
+    let solved = solved.and_then(Result::ok);
+    let analysis = match (&plan.rule, plan.piecewise, &solved) {
+        (Some(rule), false, _) => {
+            let end = crate::analysis::at_point::support_end(&rule.problem, &values);
+            if let Some((condition, why)) = failed_condition(rule, &values, end.as_ref()) {
+                let cell = Cell::Missing(Missing::Invalid(condition, why));
+                return (vec![cell; quantities.len()], Vec::new());
+            }
+            let mut moments = [false; 3];
+            for q in quantities {
+                if let Some(j) = q.moment() {
+                    moments[j] = true;
+                }
+            }
+            let request = PointRequest {
+                digits,
+                moments,
+                cross_check,
+                prefactor: quantities.contains(&Quantity::Prefactor),
+            };
+            analyse_at(
+                &rule.problem,
+                &rule.solution,
+                &rule.analysis,
+                &rule.form,
+                &values,
+                &request,
+            )
         }
-    }
-    let request = PointRequest {
-        digits,
-        moments,
-        cross_check,
-        prefactor: quantities.contains(&Quantity::Prefactor),
+        (_, _, Some(solved)) => match piecewise_analysis(solved, digits) {
+            Ok(a) => a,
+            Err(why) => {
+                let cell = Cell::Missing(Missing::Unavailable(why));
+                return (vec![cell; quantities.len()], Vec::new());
+            }
+        },
+        _ => unreachable!("a one-rule model always has its plan"),
     };
-    let analysis = analyse_at(
-        problem,
-        &plan.solution,
-        &plan.analysis,
-        &plan.form,
-        &values,
-        &request,
-    );
+    let law = solved
+        .as_ref()
+        .filter(|_| wants_probabilities)
+        .map(|s| Law::new(s, digits));
     let mut checks = Vec::new();
     let cells = quantities
         .iter()
         .map(|q| {
-            let cell = cell(plan, &analysis, &values, q, digits);
+            let cell = match (q, &law, &solved) {
+                (Quantity::Probability(event), Some(law), _) => probability(law, event),
+                (Quantity::Term(k), _, Some(solved)) if plan.piecewise => {
+                    piecewise_term(solved, k, digits)
+                }
+                _ => cell(plan, &analysis, &values, q, digits),
+            };
             if let (true, Some(j)) = (cross_check, q.moment()) {
                 let moment = moment_of(&analysis, j);
                 if let Some(check) = moment.2.and_then(|v| v.check.clone()) {
@@ -72,9 +113,73 @@ pub(super) fn evaluate(
     (cells, checks)
 }
 
+/// The analysis of a piecewise model at a point, by the model-level analysis `solve` uses
+/// (so the numbers agree with `solve`), in the shape of a one-rule point.
+fn piecewise_analysis(solved: &ModelSolution, digits: u32) -> Result<PointAnalysis, String> {
+    let request = AnalysisRequest {
+        terms: 0,
+        digits,
+        normalize: false,
+    };
+    let a =
+        analyse_model(solved, &request).map_err(|d| format!("outside the model: {}", d.message))?;
+    let tail = a
+        .tail
+        .as_ref()
+        .and_then(|t| t.numbers.as_ref())
+        .and_then(|n| {
+            Some(PointTail {
+                rate: crate::algebra::parse_q(&n.rate)?,
+                power: crate::algebra::parse_q(&n.power)?,
+                prefactor: Ok(n.prefactor.clone()),
+            })
+        });
+    Ok(PointAnalysis {
+        support_end: None,
+        tail,
+        normalization: a.normalization,
+        mean: a.mean,
+        variance: a.variance,
+        total: None,
+    })
+}
+
+/// a(K) of a piecewise model: the chained direct product across the pieces, as `table`
+/// computes it.
+fn piecewise_term(solved: &ModelSolution, k: &BigInt, digits: u32) -> Cell {
+    let request = TableRequest {
+        from: k.clone(),
+        to: k.clone(),
+        digits,
+        base_value: Q::from_integer(1.into()),
+        check_all: false,
+    };
+    let steps = k - solved.base_index();
+    if steps <= BigInt::from(EXACT_STEPS) {
+        if let Ok(terms) = exact_terms(solved, &Q::from_integer(1.into()), k) {
+            if let Some(q) = terms.last() {
+                return Cell::Value(exact_number(
+                    q,
+                    digits,
+                    "exact direct product across the pieces",
+                ));
+            }
+        }
+    }
+    match build_piecewise_table(solved, &request, 0..0) {
+        Ok(table) => Cell::Value(Number {
+            value: table.rows[0].direct.clone(),
+            exact: None,
+            error_bound: format!("{} (relative)", table.direct_error_bound),
+            method: "MPFR direct product across the pieces".into(),
+        }),
+        Err(d) => Cell::Missing(Missing::Unavailable(d.message)),
+    }
+}
+
 /// The first condition of the rule that fails at these values, with the reason.
 fn failed_condition(
-    plan: &Plan,
+    plan: &RulePlan,
     values: &BTreeMap<String, Q>,
     end: Option<&BigInt>,
 ) -> Option<(Condition, String)> {
@@ -217,9 +322,28 @@ fn cell(
                 )),
             }
         }
-        Quantity::Term(k) => term(plan, values, &analysis.support_end, k, digits),
-        Quantity::TailProbability(_) => Cell::Missing(Missing::Unavailable(
-            "probabilities of ranges of k are not available in sweep yet".into(),
+        Quantity::Term(k) => match &plan.rule {
+            Some(rule) if !plan.piecewise => term(rule, values, &analysis.support_end, k, digits),
+            _ => Cell::Missing(Missing::Unavailable("a(K) needs the solved model".into())),
+        },
+        Quantity::Probability(_) => Cell::Missing(Missing::Unavailable(
+            "the probability engine did not run".into(),
+        )),
+    }
+}
+
+/// P(event) at a point, from the probability engine.
+fn probability(law: &Law<'_>, event: &Event) -> Cell {
+    let p = law.probability(event);
+    match (p.value, p.note) {
+        (Some(v), _) => Cell::Value(Number {
+            value: v.value,
+            exact: v.exact.as_deref().and_then(crate::algebra::parse_q),
+            error_bound: v.error_bound,
+            method: v.method,
+        }),
+        (None, note) => Cell::Missing(Missing::Unavailable(
+            note.unwrap_or_else(|| "no value".into()),
         )),
     }
 }
@@ -227,7 +351,7 @@ fn cell(
 /// a(K) with a(b) = 1 by the direct product of the rule as written: exact up to
 /// `EXACT_STEPS` factors, MPFR with a proven bound beyond (as `table` computes it).
 fn term(
-    plan: &Plan,
+    plan: &RulePlan,
     values: &BTreeMap<String, Q>,
     end: &Option<BigInt>,
     k: &BigInt,

@@ -10,6 +10,7 @@ use num_traits::{One, Signed, ToPrimitive};
 use crate::algebra::{parse_q, Q};
 use crate::diagnostic::Diagnostic;
 use crate::model::Model;
+use crate::probability::{parse_event, Event};
 
 /// Fewest and most points along one axis, and in a whole grid.
 pub const MIN_POINTS: u64 = 2;
@@ -67,7 +68,7 @@ pub struct Spacing {
 }
 
 /// One quantity of the sweep.
-#[derive(Clone, Debug, PartialEq, Eq)]
+#[derive(Clone, Debug, PartialEq)]
 pub enum Quantity {
     /// r in a(k) ~ C·r^k·k^θ
     Rate,
@@ -81,9 +82,9 @@ pub enum Quantity {
     Variance,
     /// a(K) with a(b) = 1
     Term(BigInt),
-    /// P(k ≥ K) under the normalised law: the hook for the probabilities of ranges of k,
-    /// which come with the piecewise/probability work; refused until then.
-    TailProbability(BigInt),
+    /// The probability of a range of k under the normalised law, `P(k >= 10)`,
+    /// `P(2 <= k <= c)` (the event as written, and as read by `probability::parse_event`).
+    Probability(Event),
 }
 
 impl Quantity {
@@ -97,7 +98,10 @@ impl Quantity {
             Quantity::Mean => "mean".into(),
             Quantity::Variance => "variance".into(),
             Quantity::Term(k) => format!("{sequence}({k})"),
-            Quantity::TailProbability(k) => format!("P(k>={k})"),
+            Quantity::Probability(e) => {
+                let compact: String = e.text.chars().filter(|c| !c.is_whitespace()).collect();
+                format!("P({compact})")
+            }
         }
     }
 
@@ -123,7 +127,7 @@ pub fn default_quantities() -> Vec<Quantity> {
     ]
 }
 
-const QUANTITY_HELP: &str = "choose from rate, theta, prefactor, total, mean, variance and a(K) for a whole number K (the sequence's own name works too: n(10)), separated by commas";
+const QUANTITY_HELP: &str = "choose from rate, theta, prefactor, total, mean, variance, a(K) for a whole number K (the sequence's own name works too: n(10)) and probabilities such as P(k >= 10), separated by commas";
 
 /// `--quantities rate,theta,a(10)`.
 pub fn parse_quantities(text: &str, model: &Model) -> Result<Vec<Quantity>, ArgError> {
@@ -152,11 +156,20 @@ pub fn parse_quantities(text: &str, model: &Model) -> Result<Vec<Quantity>, ArgE
                             .hint("write a(10), with the index as a number")
                     })?;
                     Quantity::Term(k)
-                } else if probability_index(other, &model.index).is_some() {
-                    return Err(bad(format!(
-                        "`{other}`: probabilities of ranges of k are not available in sweep yet"
-                    ))
-                    .hint("they arrive with the probabilities of ranges of k (`solve --prob`); meanwhile sweep a(K) and the total"));
+                } else if let Some(inner) =
+                    other.strip_prefix("P(").and_then(|t| t.strip_suffix(')'))
+                {
+                    let offset = span_trimmed.start + 2;
+                    let event =
+                        parse_event(inner, &model.index, &model.params).map_err(|d| ArgError {
+                            flag: flag.to_string(),
+                            text: text.to_string(),
+                            diagnostic: Diagnostic {
+                                span: d.span.start + offset..d.span.end + offset,
+                                ..d
+                            },
+                        })?;
+                    Quantity::Probability(event)
                 } else {
                     return Err(bad(format!("unknown quantity `{other}`")).hint(QUANTITY_HELP));
                 }
@@ -178,14 +191,6 @@ fn term_index(text: &str, sequence: &str) -> Option<Option<BigInt>> {
         return None;
     }
     Some(index.trim().parse::<BigInt>().ok())
-}
-
-/// `P(k>=10)`.
-fn probability_index(text: &str, index: &str) -> Option<Option<BigInt>> {
-    let inner = text.strip_prefix("P(")?.strip_suffix(')')?;
-    let compact: String = inner.chars().filter(|c| !c.is_whitespace()).collect();
-    let k = compact.strip_prefix(index)?.strip_prefix(">=")?;
-    Some(k.parse::<BigInt>().ok())
 }
 
 /// `NAME=A..B` checked against the model: a declared parameter with no `--param` value, A < B,
