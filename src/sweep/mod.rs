@@ -328,3 +328,34 @@ pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
 pub fn estimate_seconds(first_point: Duration, points: usize, threads: usize) -> f64 {
     first_point.as_secs_f64() * points as f64 / threads.max(1) as f64
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::q;
+
+    #[test]
+    fn a_grid_runs_the_first_axis_outermost() {
+        let axis = |name: &str, values: Vec<Q>| Axis {
+            name: name.into(),
+            from: values[0].clone(),
+            to: values[values.len() - 1].clone(),
+            log: false,
+            values,
+        };
+        let g = grid(&[
+            axis("a", vec![q(1, 1), q(2, 1)]),
+            axis("b", vec![q(5, 1), q(6, 1), q(7, 1)]),
+        ]);
+        assert_eq!(g.len(), 6);
+        assert_eq!(g[1], vec![q(1, 1), q(6, 1)]);
+        assert_eq!(g[3], vec![q(2, 1), q(5, 1)]);
+    }
+
+    #[test]
+    fn checked_points_include_the_ends() {
+        assert_eq!(check_indices(1000, 5), vec![0, 249, 499, 749, 999]);
+        assert_eq!(check_indices(2, 5), vec![0, 1]);
+        assert!(check_indices(10, 0).is_empty());
+    }
+}

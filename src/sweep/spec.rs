@@ -551,3 +551,71 @@ pub fn check_terms(
     }
     Ok(())
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::q;
+
+    fn spacing(points: Option<u64>, step: Option<&str>, log: bool) -> Spacing {
+        Spacing {
+            points,
+            step: step.map(String::from),
+            log,
+        }
+    }
+
+    #[test]
+    fn even_points_are_exact_and_include_both_ends() {
+        let v = place_points(&q(1, 10), &q(9, 10), false, &spacing(Some(5), None, false)).unwrap();
+        assert_eq!(v, vec![q(1, 10), q(3, 10), q(1, 2), q(7, 10), q(9, 10)]);
+    }
+
+    #[test]
+    fn a_step_walks_from_the_start_and_stops_inside() {
+        let v = place_points(
+            &q(0, 1),
+            &q(1, 1),
+            false,
+            &spacing(None, Some("0.3"), false),
+        )
+        .unwrap();
+        assert_eq!(v, vec![q(0, 1), q(3, 10), q(3, 5), q(9, 10)]);
+    }
+
+    #[test]
+    fn log_points_are_short_decimals_between_exact_ends() {
+        let v = place_points(&q(1, 1000), &q(1, 1), false, &spacing(Some(4), None, true)).unwrap();
+        // 10^-3, 10^-2, 10^-1, 1: exact up to the 8-digit rounding of the inner points
+        assert_eq!(v, vec![q(1, 1000), q(1, 100), q(1, 10), q(1, 1)]);
+    }
+
+    #[test]
+    fn an_integer_parameter_takes_distinct_whole_values() {
+        let v = place_points(&q(1, 1), &q(4, 1), true, &spacing(Some(10), None, false)).unwrap();
+        assert_eq!(v, vec![q(1, 1), q(2, 1), q(3, 1), q(4, 1)]);
+        // by default every whole value (up to the default count)
+        let v = place_points(&q(1, 1), &q(5, 1), true, &spacing(None, None, false)).unwrap();
+        assert_eq!(v.len(), 5);
+    }
+
+    #[test]
+    fn counts_outside_two_to_a_million_are_refused() {
+        assert!(place_points(&q(0, 1), &q(1, 1), false, &spacing(Some(1), None, false)).is_err());
+        assert!(place_points(
+            &q(0, 1),
+            &q(1, 1),
+            false,
+            &spacing(Some(1_000_001), None, false)
+        )
+        .is_err());
+        assert!(place_points(&q(0, 1), &q(1, 1), false, &spacing(None, Some("2"), false)).is_err());
+        assert!(place_points(
+            &q(0, 1),
+            &q(1, 1),
+            false,
+            &spacing(Some(3), Some("0.1"), false)
+        )
+        .is_err());
+    }
+}
