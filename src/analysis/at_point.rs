@@ -57,8 +57,6 @@ pub struct PointAnalysis {
     pub normalization: Normalization,
     pub mean: Moment,
     pub variance: Moment,
-    /// The total to carry on (closed form or numeric sum), with a(b) = 1.
-    pub total: Option<Bounded>,
 }
 
 /// The last index of the support at a point: a numerator factor that vanishes at an integer
@@ -141,7 +139,6 @@ pub fn analyse_at(
     // (or, for evidence, when asked to).
     let needs_sums = request.cross_check
         || (0..3).any(|j| request.moments[j] && closed[j].is_none() && finite[j]);
-    let total;
     if needs_sums {
         let analysis_request = AnalysisRequest {
             terms: 0,
@@ -157,7 +154,6 @@ pub fn analyse_at(
             &variance,
         );
         numbers.apply(&mut normalization, &mut mean, &mut variance, digits);
-        total = numbers.closed_total.clone().or(numbers.total.clone());
     } else {
         let evaluate = |j: usize| -> Option<Bounded> {
             if !(request.moments[j] || j == 0) || !finite[j] {
@@ -183,7 +179,6 @@ pub fn analyse_at(
         normalization.value = report(&values_found[0], theorem);
         mean.value = report(&values_found[1], None);
         variance.value = report(&values_found[2], None);
-        total = values_found[0].clone();
     }
 
     let tail = (!finite_support).then(|| {
@@ -215,7 +210,6 @@ pub fn analyse_at(
         normalization,
         mean,
         variance,
-        total,
     }
 }
 

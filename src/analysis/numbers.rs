@@ -32,7 +32,7 @@ pub(super) struct Numbers {
     variance: Option<Bounded>,
     sums_method: Option<String>,
     pub(super) failure: Option<SumFailure>,
-    pub(super) closed_total: Option<Bounded>,
+    closed_total: Option<Bounded>,
     closed_mean: Option<Bounded>,
     closed_variance: Option<Bounded>,
 }

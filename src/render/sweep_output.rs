@@ -57,40 +57,63 @@ fn trim_zeros(s: &str) -> String {
     s.trim_end_matches('0').trim_end_matches('.').to_string()
 }
 
-/// The note of one empty cell.
-fn missing_note(q: &Quantity, m: &Missing, sweep: &Sweep) -> String {
-    let t = title(q, sweep);
+/// Why one cell is empty: the words after the quantity's name ("infinite: needs …", ": …"),
+/// or a reason that stands alone (outside the model, no tail law).
+fn missing_reason(m: &Missing, sweep: &Sweep) -> (bool, String) {
     match m {
         Missing::Invalid(c, why) => {
             let (text, _) = condition_strings(c);
-            format!("outside the model: {text} fails ({why})")
+            (false, format!("outside the model: {text} fails ({why})"))
         }
         Missing::Infinite {
             failed: Some(i), ..
         } => {
             let (text, _) = inequality_strings(i);
-            format!("{t} infinite: needs {text}")
+            (true, format!(" infinite: needs {text}"))
         }
-        Missing::Infinite { why, .. } => format!("{t} infinite: {why}"),
-        Missing::NoTail(end) => format!(
-            "no tail law: the support ends at {} = {end}",
-            name(&sweep.index)
+        Missing::Infinite { why, .. } => (true, format!(" infinite: {why}")),
+        Missing::NoTail(end) => (
+            false,
+            format!(
+                "no tail law: the support ends at {} = {end}",
+                name(&sweep.index)
+            ),
         ),
-        Missing::Unavailable(why) => format!("{t}: {why}"),
+        Missing::Unavailable(why) => (true, format!(": {why}")),
     }
 }
 
-/// The note of a point: the reasons of its empty cells, each once.
+/// The note of one empty cell.
+fn missing_note(q: &Quantity, m: &Missing, sweep: &Sweep) -> String {
+    match missing_reason(m, sweep) {
+        (true, reason) => format!("{}{reason}", title(q, sweep)),
+        (false, reason) => reason,
+    }
+}
+
+/// The note of a point: each reason once, with the quantities it applies to
+/// ("mean, variance infinite: needs …").
 fn point_note(cells: &[Cell], sweep: &Sweep) -> Option<String> {
-    let mut notes: Vec<String> = Vec::new();
+    let mut groups: Vec<(bool, String, Vec<String>)> = Vec::new();
     for (q, c) in sweep.quantities.iter().zip(cells) {
         if let Cell::Missing(m) = c {
-            let n = missing_note(q, m, sweep);
-            if !notes.contains(&n) {
-                notes.push(n);
+            let (named, reason) = missing_reason(m, sweep);
+            match groups.iter_mut().find(|g| g.1 == reason) {
+                Some(g) => g.2.push(title(q, sweep)),
+                None => groups.push((named, reason, vec![title(q, sweep)])),
             }
         }
     }
+    let notes: Vec<String> = groups
+        .into_iter()
+        .map(|(named, reason, titles)| {
+            if named {
+                format!("{}{reason}", titles.join(", "))
+            } else {
+                reason
+            }
+        })
+        .collect();
     (!notes.is_empty()).then(|| notes.join("; "))
 }
 

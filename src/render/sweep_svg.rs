@@ -140,6 +140,7 @@ pub fn sweep_svg(sweep: &Sweep) -> Result<String, PlotError> {
         let state = |c: &Cell| match c {
             Cell::Missing(Missing::Infinite { .. }) => Some("infinite"),
             Cell::Missing(Missing::Invalid(..)) => Some("outside the model"),
+            Cell::Missing(Missing::Unavailable(_)) => Some("no value"),
             _ => None,
         };
         let mut i = 0;

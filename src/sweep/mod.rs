@@ -268,14 +268,24 @@ pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
     let checked = check_indices(points.len(), request.check_points);
     let names: Vec<&str> = request.axes.iter().map(|a| a.name.as_str()).collect();
     let evaluate = |i: usize| {
-        point::evaluate(
-            plan,
-            &names,
-            &points[i],
-            &request.quantities,
-            request.digits,
-            checked.binary_search(&i).is_ok(),
-        )
+        // A failure inside the numeric layers at one point must not cost the others: that
+        // point's cells say so, and the rest of the sweep stands.
+        std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
+            point::evaluate(
+                plan,
+                &names,
+                &points[i],
+                &request.quantities,
+                request.digits,
+                checked.binary_search(&i).is_ok(),
+            )
+        }))
+        .unwrap_or_else(|_| {
+            let cell = Cell::Missing(Missing::Unavailable(
+                "an internal error stopped the evaluation at this point (please report it)".into(),
+            ));
+            (vec![cell; request.quantities.len()], Vec::new())
+        })
     };
     let started = Instant::now();
     let first = evaluate(0);

@@ -140,7 +140,6 @@ fn piecewise_analysis(solved: &ModelSolution, digits: u32) -> Result<PointAnalys
         normalization: a.normalization,
         mean: a.mean,
         variance: a.variance,
-        total: None,
     })
 }
 
