@@ -137,8 +137,39 @@ pub fn analyse_at(
     .map(|f| *f == Finiteness::Finite);
     // The numeric sums are the slow part: run them where a wanted number has no closed form
     // (or, for evidence, when asked to).
-    let needs_sums = request.cross_check
+    let mut needs_sums = request.cross_check
         || (0..3).any(|j| request.moments[j] && closed[j].is_none() && finite[j]);
+    if !needs_sums {
+        let evaluate = |j: usize| -> Option<Bounded> {
+            if !(request.moments[j] || j == 0) || !finite[j] {
+                return None;
+            }
+            evaluate_expr(closed[j]?, values, digits)
+        };
+        let found = [evaluate(0), evaluate(1), evaluate(2)];
+        // A closed form that cannot be evaluated here (a pole of Γ, say) leaves the number
+        // to the numeric sums.
+        needs_sums = (0..3).any(|j| request.moments[j] && finite[j] && found[j].is_none());
+        if !needs_sums {
+            let theorem = normalization
+                .closed_form
+                .as_ref()
+                .map(|(_, th)| format!("closed form by {}", th.name()));
+            let report = |b: &Option<Bounded>, method: Option<String>| {
+                b.as_ref().map(|b| {
+                    number(
+                        b,
+                        &method.unwrap_or_else(|| "closed form".into()),
+                        None,
+                        digits,
+                    )
+                })
+            };
+            normalization.value = report(&found[0], theorem);
+            mean.value = report(&found[1], None);
+            variance.value = report(&found[2], None);
+        }
+    }
     if needs_sums {
         let analysis_request = AnalysisRequest {
             terms: 0,
@@ -154,31 +185,6 @@ pub fn analyse_at(
             &variance,
         );
         numbers.apply(&mut normalization, &mut mean, &mut variance, digits);
-    } else {
-        let evaluate = |j: usize| -> Option<Bounded> {
-            if !(request.moments[j] || j == 0) || !finite[j] {
-                return None;
-            }
-            evaluate_expr(closed[j]?, values, digits)
-        };
-        let values_found = [evaluate(0), evaluate(1), evaluate(2)];
-        let theorem = normalization
-            .closed_form
-            .as_ref()
-            .map(|(_, th)| format!("closed form by {}", th.name()));
-        let report = |b: &Option<Bounded>, method: Option<String>| {
-            b.as_ref().map(|b| {
-                number(
-                    b,
-                    &method.unwrap_or_else(|| "closed form".into()),
-                    None,
-                    digits,
-                )
-            })
-        };
-        normalization.value = report(&values_found[0], theorem);
-        mean.value = report(&values_found[1], None);
-        variance.value = report(&values_found[2], None);
     }
 
     let tail = (!finite_support).then(|| {
