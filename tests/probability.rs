@@ -439,3 +439,27 @@ fn piecewise_tables_normalise_and_stop_at_the_last_state() {
     let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     assert_eq!(json["base_value"], "1/9");
 }
+
+#[test]
+fn symbolic_breakpoints_give_each_piece_and_the_total_with_sigma() {
+    // M/M/c with c symbolic: p(k) = p(0)(λ/μ)^k/k! up to c, p(c)(λ/(cμ))^(k−c) beyond, and the
+    // total Σ_{j≤c} (λ/μ)^j/j! + (λ/μ)^c/c!·λ/(cμ − λ): Erlang C's denominator (Kleinrock
+    // 1975, eq. 3.39) with the truncated exponential sum kept as Σ.
+    let out = common::telescope(&["solve", "examples/repair_counter.rule"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8_lossy(&out.stdout);
+    for line in [
+        "p(k) = p(0)·(λ/μ)^k/k!",
+        "p(k) = p(c)·(λ/(c·μ))^(k − c)",
+        "Σ_{k≥0} p(k) = p(0)·(Σ_{j=0}^{c} (λ/μ)^j/j! + (λ/μ)^c/c!·λ/(c·μ − λ))",
+    ] {
+        assert!(text.contains(line), "missing {line}:\n{text}");
+    }
+    // --prob needs the breakpoint's value.
+    let out = common::telescope(&["solve", "examples/repair_counter.rule", "--prob", "k >= c"]);
+    assert_eq!(out.status.code(), Some(2));
+}

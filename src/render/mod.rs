@@ -11,6 +11,7 @@ pub mod node;
 pub mod probability_output;
 pub mod report;
 pub mod solve_output;
+pub mod symbolic_output;
 pub mod table_output;
 pub mod text;
 pub mod to_node;
