@@ -12,8 +12,16 @@ use telescope::model::build_model;
 use telescope::piecewise::solve_model;
 use telescope::probability::{parse_event, Law};
 
+/// (name, model, parameter values, event)
+type Case = (
+    &'static str,
+    &'static str,
+    Vec<(&'static str, Q)>,
+    &'static str,
+);
+
 fn probabilities(c: &mut Criterion) {
-    let cases: [(&str, &str, Vec<(&str, Q)>, &str); 3] = [
+    let cases: [Case; 3] = [
         (
             "erlang_c_50_servers",
             "param A > 0\nparam c integer >= 1\nbirth(k) = A\ndeath(k) = k for 1 <= k <= c\ndeath(k) = c for k > c",
