@@ -198,6 +198,27 @@ fn run(cli: Cli) -> Result<String, Error> {
             let input = session::read_input(&input)?;
             let model = session::load_model(&input)?;
             let values = session::parse_values_for(&model.params, &params)?;
+            if model.is_piecewise()
+                && telescope::piecewise::symbolic::has_symbolic_breakpoints(&model, &values)
+            {
+                if normalize || !prob.is_empty() {
+                    return Err(Error::Usage(
+                        "--normalize and --prob need the breakpoints' values (--param c=…); without them solve gives the symbolic forms".into(),
+                    ));
+                }
+                let symbolic = telescope::piecewise::symbolic::solve_symbolic(&model, &values)
+                    .map_err(|diagnostic| Error::Input {
+                        input: input.clone(),
+                        diagnostic,
+                    })?;
+                return Ok(match format {
+                    SolveFormat::Text => render::symbolic_output::symbolic_text(&model, &symbolic),
+                    SolveFormat::Latex => render::symbolic_output::symbolic_latex(&symbolic),
+                    SolveFormat::Json => {
+                        pretty(&render::symbolic_output::symbolic_json(&model, &symbolic))
+                    }
+                });
+            }
             let solved = session::run_solve_model(&input, &model, &values)?;
             let events = session::parse_events(&model, &prob)?;
             let probabilities = telescope::probability::probabilities(&solved, &events, digits);

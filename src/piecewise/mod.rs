@@ -9,6 +9,7 @@
 
 mod chain;
 mod sums;
+pub mod symbolic;
 
 pub use chain::{build_piecewise_table, ChainValue, ChainedProduct};
 pub use sums::{exact_terms, MAX_FINITE_TERMS};

@@ -13,6 +13,7 @@ pub mod report;
 pub mod solve_output;
 pub mod sweep_output;
 pub mod sweep_svg;
+pub mod symbolic_output;
 pub mod table_output;
 pub mod text;
 pub mod to_node;
