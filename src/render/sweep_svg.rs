@@ -68,7 +68,8 @@ fn boundary_mark(location: &Location, param: &str) -> (PlotNumber, String) {
 fn y_scale(values: &[PlotNumber], quantity: &Quantity) -> Scale {
     let spread = matches!(
         quantity,
-        Quantity::Term(_)
+        Quantity::Rate
+            | Quantity::Term(_)
             | Quantity::Prefactor
             | Quantity::Total
             | Quantity::Mean
