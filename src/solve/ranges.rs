@@ -7,7 +7,8 @@
 //! exactly: rational ones by [`rational_roots`], irrational ones only counted, by Sturm's
 //! theorem (Basu, Pollack, Roy, *Algorithms in Real Algebraic Geometry*, Thm. 2.50); when an
 //! irrational breakpoint lies inside the interval the question is left undecided rather than
-//! guessed. Several free parameters: not decided.
+//! guessed. Several free parameters: decided only when interval arithmetic over the box of
+//! ranges proves a sign ([`super::box_sign`]).
 
 use std::cmp::Ordering;
 use std::collections::BTreeMap;
@@ -17,6 +18,8 @@ use num_traits::{One, Signed, Zero};
 
 use crate::algebra::{rational_roots, RatFunc, Q};
 use crate::model::{Param, Problem};
+
+use super::box_sign::{box_sign, BoxSign};
 
 /// A point of the extended real line.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -120,18 +123,18 @@ pub enum Verdict {
 
 // ---- dense univariate polynomials, `p[i]` multiplies x^i ----
 
-fn trim(mut p: Vec<Q>) -> Vec<Q> {
+pub(super) fn trim(mut p: Vec<Q>) -> Vec<Q> {
     while p.last().is_some_and(Zero::is_zero) {
         p.pop();
     }
     p
 }
 
-fn evaluate(p: &[Q], x: &Q) -> Q {
+pub(super) fn evaluate(p: &[Q], x: &Q) -> Q {
     p.iter().rev().fold(Q::zero(), |acc, a| acc * x + a)
 }
 
-fn derivative(p: &[Q]) -> Vec<Q> {
+pub(super) fn derivative(p: &[Q]) -> Vec<Q> {
     p.iter()
         .enumerate()
         .skip(1)
@@ -139,7 +142,7 @@ fn derivative(p: &[Q]) -> Vec<Q> {
         .collect()
 }
 
-fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
+pub(super) fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
     if a.is_empty() || b.is_empty() {
         return Vec::new();
     }
@@ -163,7 +166,7 @@ fn subtract(a: &[Q], b: &[Q]) -> Vec<Q> {
     trim(out)
 }
 
-fn remainder(a: &[Q], b: &[Q]) -> Vec<Q> {
+pub(super) fn remainder(a: &[Q], b: &[Q]) -> Vec<Q> {
     let mut r = trim(a.to_vec());
     let lead = b.last().expect("non-zero divisor").clone();
     while r.len() >= b.len() && !r.is_empty() {
@@ -216,7 +219,7 @@ fn variations(chain: &[Vec<Q>], x: &Extended) -> usize {
 
 /// Distinct real roots of `p` strictly between `a` and `b`, neither of which is a root
 /// (Sturm's theorem).
-fn count_roots_between(p: &[Q], a: &Extended, b: &Extended) -> usize {
+pub(super) fn count_roots_between(p: &[Q], a: &Extended, b: &Extended) -> usize {
     if p.len() <= 1 {
         return 0;
     }
@@ -396,7 +399,18 @@ pub fn takes_integer_at_least(
 ) -> Verdict {
     let (num, den, param) = match univariate(expr, problem, values) {
         Ok(parts) => parts,
-        Err(why) => return Verdict::Open(why),
+        Err(why) => {
+            // Several parameters: below `min` on the whole box of ranges means never.
+            let below = expr
+                .eval_partial(values)
+                .ok()
+                .map(|e| &RatFunc::constant(Q::from_integer(min.clone())) - &e)
+                .and_then(|gap| box_sign(&gap, &problem.params));
+            return match below {
+                Some(BoxSign::Positive) => Verdict::Never,
+                _ => Verdict::Open(why),
+            };
+        }
     };
     let interval = Interval::of_param(param);
     if interval.is_everything() && !param.integer {
@@ -432,7 +446,17 @@ pub fn vanishes_somewhere(
 ) -> Verdict {
     let (num, _, param) = match univariate(expr, problem, values) {
         Ok(parts) => parts,
-        Err(why) => return Verdict::Open(why),
+        Err(why) => {
+            // Several parameters: a sign proven on the whole box of ranges means never zero.
+            let sign = expr
+                .eval_partial(values)
+                .ok()
+                .and_then(|e| box_sign(&e, &problem.params));
+            return match sign {
+                Some(BoxSign::Positive | BoxSign::Negative) => Verdict::Never,
+                _ => Verdict::Open(why),
+            };
+        }
     };
     let interval = Interval::of_param(param);
     let (roots, cofactor) = rational_roots(&num);
@@ -556,6 +580,13 @@ mod tests {
             takes_integer_at_least(&e, &1.into(), &p, &none),
             Verdict::Open(why) if why.contains("several")
         ));
+        // a/b with a, b > 0 is positive on the whole box: it never reaches 0, −1, −2, …
+        let ratio = RatFunc::var("a").checked_div(&RatFunc::var("b")).unwrap();
+        assert_eq!(
+            takes_integer_at_least(&-ratio.clone(), &0.into(), &p, &none),
+            Verdict::Never
+        );
+        assert_eq!(vanishes_somewhere(&ratio, &p, &none), Verdict::Never);
         // With b fixed the question is about a alone: a − 5 on (0, ∞) reaches 1, 2, …
         let fixed = BTreeMap::from([("b".to_string(), q(5, 1))]);
         assert_eq!(

@@ -99,10 +99,11 @@ pub fn find_support(
             None => {
                 // A root the declared ranges keep off the integers ≥ the first index never
                 // ends the support: `k + r − 1` with r > 0 is non-zero for every k ≥ 1.
-                let reachable =
-                    takes_integer_at_least(&root, first_index, problem, values) != Verdict::Never;
-                if reachable && symbolic.is_none() {
-                    let certain = is_integer_valued(&root, problem);
+                let verdict = takes_integer_at_least(&root, first_index, problem, values);
+                if verdict != Verdict::Never && symbolic.is_none() {
+                    // Certain when the ranges put the root on an integer ≥ the first index
+                    // for every admissible value (e.g. `N − k + 1` with N integer ≥ 1).
+                    let certain = verdict == Verdict::Always || is_integer_valued(&root, problem);
                     symbolic = Some((&root - &RatFunc::one(), certain));
                 }
             }
