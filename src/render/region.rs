@@ -208,10 +208,26 @@ fn bound_json(b: &Bound, variable: &str) -> Value {
             "algebraic": null,
         }),
         Bound::Algebraic(a) => {
-            let exact = algebraic_node(a);
+            // Without a radical form the exact value is the root in its isolating interval.
+            let (exact, exact_latex) = match algebraic_node(a) {
+                Some(node) => (text::write(&node), latex::write(&node)),
+                None => {
+                    let p = root_polynomial(a, variable);
+                    let (low, high) = (to_node::rational(&a.low), to_node::rational(&a.high));
+                    (
+                        format!("the root of {} in ({}, {})", text::write(&p), a.low, a.high),
+                        format!(
+                            "\\text{{the root of }} {} \\text{{ in }} \\left({}, {}\\right)",
+                            latex::write(&p),
+                            latex::write(&low),
+                            latex::write(&high)
+                        ),
+                    )
+                }
+            };
             json!({
-                "exact": exact.as_ref().map(text::write),
-                "latex": exact.as_ref().map(latex::write),
+                "exact": exact,
+                "latex": exact_latex,
                 "decimal": a.decimal,
                 "algebraic": {
                     "polynomial": text::write(&root_polynomial(a, variable)),

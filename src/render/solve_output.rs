@@ -8,7 +8,9 @@ use crate::model::{Param, Problem};
 use crate::solve::{Condition, ConditionKind, Solution, Status, SupportEnd};
 
 use super::node::Node;
+use super::region::{region_json, region_text};
 use super::{derivation, formula, latex, text, to_node};
+use crate::analysis::Region;
 
 /// `a(k)/a(k−1) = R(k)` as one node pair.
 pub(crate) fn rule_nodes(problem: &Problem) -> (Node, Node) {
@@ -134,6 +136,12 @@ fn condition_line(problem: &Problem, c: &Condition) -> String {
     };
     if let Status::NotDecided(note) = &c.status {
         status = format!("{status}: {note}");
+    }
+    if let Some(split) = &c.holds_for {
+        status += &format!(
+            "; {}",
+            region_text(&Region::Intervals(split.clone()), "holds", "fails")
+        );
     }
     format!("  {t}   ({}; {status})\n", c.reason)
 }
@@ -464,6 +472,7 @@ pub fn solve_json(problem: &Problem, solution: &Solution) -> Value {
                 "settled_by": why.map(|(text, _)| text),
                 "settled_by_ranges": by_ranges,
                 "note": note,
+                "holds_for": region_json(c.holds_for.clone().map(Region::Intervals).as_ref()),
             })
         }).collect::<Vec<_>>(),
     })

@@ -438,6 +438,42 @@ pub fn takes_integer_at_least(
     }
 }
 
+/// Most integers listed by [`integers_reached`].
+const MAX_INTEGERS_REACHED: usize = 20;
+
+/// The integers ≥ `min` that `expr` (one free parameter) takes on the declared range, when
+/// its image is bounded above so that they are few; `None` otherwise.
+pub fn integers_reached(
+    expr: &RatFunc,
+    min: &BigInt,
+    problem: &Problem,
+    values: &BTreeMap<String, Q>,
+) -> Option<Vec<BigInt>> {
+    let (num, den, param) = univariate(expr, problem, values).ok()?;
+    let pieces = image(&num, &den, &Interval::of_param(param)).ok()?;
+    let mut out: Vec<BigInt> = Vec::new();
+    for piece in pieces {
+        let Extended::Finite(high) = &piece.high else {
+            if piece.has_integer_at_least(min) {
+                return None;
+            }
+            continue;
+        };
+        let mut m = min.clone();
+        while Q::from_integer(m.clone()) <= *high {
+            if piece.contains(&Q::from_integer(m.clone())) && !out.contains(&m) {
+                out.push(m.clone());
+                if out.len() > MAX_INTEGERS_REACHED {
+                    return None;
+                }
+            }
+            m += 1;
+        }
+    }
+    out.sort();
+    Some(out)
+}
+
 /// Whether `expr` vanishes somewhere on the declared range.
 pub fn vanishes_somewhere(
     expr: &RatFunc,
