@@ -196,3 +196,20 @@ fn conditions_of_the_rule_say_where_they_hold() {
         .iter()
         .all(|c| c["holds_for"].is_null()));
 }
+
+#[test]
+fn a_parametric_rate_leaves_the_unit_circle_open() {
+    // a(k) ~ C·(x − 2)^k·k^(x − 4): the ratio test (common practice) gives convergence for
+    // |x − 2| < 1 and divergence for |x − 2| > 1; at x = 1 (rate −1) it depends on the
+    // power of k, so x = 1 is in neither list.
+    let rule = "param x in (0, 3)\na(k)/a(k-1) = (k + x - 3)/(k + 1)*(x - 2)";
+    let out = solve(&[rule]);
+    assert!(
+        out.contains("total is   finite for 1 < x < 3, infinite for 0 < x < 1\n"),
+        "{out}"
+    );
+    let v = solve_json(&[rule]);
+    let fails = &v["normalization"]["finite_for"]["fails_for"][0];
+    assert_eq!(fails["high"]["exact"], "1");
+    assert_eq!(fails["high_included"], false);
+}

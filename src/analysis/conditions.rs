@@ -10,7 +10,7 @@ use num_traits::{One, Signed, Zero};
 use crate::algebra::{RatFunc, Q};
 use crate::model::Param;
 use crate::solve::box_sign::{box_sign, BoxSign};
-use crate::solve::inequality::{solve_linear, split_univariate, LinearSolution, Split};
+use crate::solve::inequality::{solve_linear, split_univariate_open, LinearSolution, Split};
 use crate::solve::ranges::Interval;
 
 /// One inequality in the parameters.
@@ -100,14 +100,27 @@ pub fn decide(ineq: &Inequality, values: &BTreeMap<String, Q>, params: &[Param])
 /// Digits of irrational interval ends when no `--digits` is at hand.
 const DEFAULT_DIGITS: u32 = 30;
 
-/// The inequality as `f > 0` conditions (|r| < 1 is 1 − r > 0 and 1 + r > 0).
-fn as_positive(ineq: &Inequality) -> Vec<RatFunc> {
+/// The inequality as `f > 0` conditions (|r| < 1 is 1 − r > 0 and 1 + r > 0), each with
+/// whether its zeros are open: |r| = 1 fails the inequality, yet whether the sum converges
+/// there depends on the power of k, which this inequality does not see.
+fn as_positive(ineq: &Inequality) -> Vec<(RatFunc, bool)> {
     let one = RatFunc::one();
     match ineq {
         Inequality::Never(_) => Vec::new(),
-        Inequality::Positive(expr) => vec![expr.clone()],
-        Inequality::AbsBelowOne(expr) => vec![&one - expr, &one + expr],
+        Inequality::Positive(expr) => vec![(expr.clone(), false)],
+        Inequality::AbsBelowOne(expr) => vec![(&one - expr, true), (&one + expr, true)],
     }
+}
+
+/// The conditions with the values substituted; `None` when a value divides by zero.
+fn substituted(
+    conditions: Vec<(RatFunc, bool)>,
+    values: &BTreeMap<String, Q>,
+) -> Option<Vec<(RatFunc, bool)>> {
+    conditions
+        .into_iter()
+        .map(|(f, open)| f.eval_partial(values).ok().map(|f| (f, open)))
+        .collect()
 }
 
 /// The verdict, and where the inequality holds when the ranges leave it open.
@@ -133,11 +146,7 @@ fn decide_with_region(
         };
         return (verdict, None);
     }
-    let Some(conditions) = as_positive(ineq)
-        .iter()
-        .map(|f| f.eval_partial(values).ok())
-        .collect::<Option<Vec<RatFunc>>>()
-    else {
+    let Some(conditions) = substituted(as_positive(ineq), values) else {
         return (Verdict::Undecided, None);
     };
     let fails = match ineq {
@@ -152,7 +161,10 @@ fn decide_with_region(
         };
     }
     // Several parameters: a sign proven on the box of ranges, else solve for one of them.
-    let signs: Vec<Option<BoxSign>> = conditions.iter().map(|f| box_sign(f, params)).collect();
+    let signs: Vec<Option<BoxSign>> = conditions
+        .iter()
+        .map(|(f, _)| box_sign(f, params))
+        .collect();
     if signs.iter().all(|s| *s == Some(BoxSign::Positive)) {
         return (Verdict::Holds("the declared ranges".into()), None);
     }
@@ -163,7 +175,7 @@ fn decide_with_region(
         return (Verdict::Fails(fails.into()), None);
     }
     let region = match conditions.as_slice() {
-        [only] => solve_linear(only, params).map(Region::Linear),
+        [(only, _)] => solve_linear(only, params).map(Region::Linear),
         _ => None,
     };
     (Verdict::Undecided, region)
@@ -194,24 +206,28 @@ fn strongest_linear(open: &[&Requirement]) -> Option<LinearSolution> {
 }
 
 /// The conjunction `f_i > 0` solved exactly when every `f_i` is in the same one parameter.
-fn split_of(conditions: &[RatFunc], params: &[Param], digits: u32) -> Option<Split> {
-    let mut variables = conditions.iter().flat_map(|f| f.variables());
+fn split_of(conditions: &[(RatFunc, bool)], params: &[Param], digits: u32) -> Option<Split> {
+    let mut variables = conditions.iter().flat_map(|(f, _)| f.variables());
     let name = variables.next()?;
     if variables.any(|v| v != name) {
         return None;
     }
     let param = params.iter().find(|p| p.name == name)?;
+    let coeffs = |p: &crate::algebra::Poly| p.univariate_coeffs(&name).unwrap_or_default();
     let pairs: Vec<(Vec<Q>, Vec<Q>)> = conditions
         .iter()
-        .map(|f| {
-            let coeffs = |p: &crate::algebra::Poly| p.univariate_coeffs(&name).unwrap_or_default();
-            (coeffs(f.numer()), coeffs(f.denom()))
-        })
+        .map(|(f, _)| (coeffs(f.numer()), coeffs(f.denom())))
         .collect();
-    Some(split_univariate(
+    let open_at: Vec<Vec<Q>> = conditions
+        .iter()
+        .filter(|(_, open)| *open)
+        .map(|(f, _)| coeffs(f.numer()))
+        .collect();
+    Some(split_univariate_open(
         &name,
         param.integer,
         &pairs,
+        &open_at,
         &Interval::of_param(param),
         digits,
     ))
@@ -239,11 +255,12 @@ pub fn joint_region(
     if let Some(strongest) = strongest_linear(&open) {
         return Some(Region::Linear(strongest));
     }
-    let conditions: Vec<RatFunc> = open
-        .iter()
-        .flat_map(|r| as_positive(&r.inequality))
-        .map(|f| f.eval_partial(values).ok())
-        .collect::<Option<Vec<_>>>()?;
+    let conditions = substituted(
+        open.iter()
+            .flat_map(|r| as_positive(&r.inequality))
+            .collect(),
+        values,
+    )?;
     split_of(&conditions, params, digits).map(Region::Intervals)
 }
 

@@ -112,10 +112,39 @@ pub fn split_univariate(
     range: &Interval,
     digits: u32,
 ) -> Split {
+    split_univariate_open(param, integer, inequalities, &[], range, digits)
+}
+
+/// As [`split_univariate`], but the zeros of the `open_at` polynomials are left out of both
+/// lists: points where the inequalities fail but the question they stand for is not decided
+/// (|r| = 1 for a convergence rate r).
+pub fn split_univariate_open(
+    param: &str,
+    integer: bool,
+    inequalities: &Inequalities,
+    open_at: &[Vec<Q>],
+    range: &Interval,
+    digits: u32,
+) -> Split {
     let mut product = vec![Q::one()];
     for (n, d) in inequalities {
         product = multiply(&multiply(&product, n), d);
     }
+    for p in open_at {
+        product = multiply(&product, p);
+    }
+    let open_factors: Vec<Vec<Q>> = open_at
+        .iter()
+        .map(|p| squarefree(&rational_roots(p).1))
+        .collect();
+    // The verdict at a point: open where an `open_at` polynomial vanishes.
+    let at_rational = |q: &Q| -> Option<bool> {
+        if open_at.iter().any(|p| evaluate(p, q).is_zero()) {
+            None
+        } else {
+            Some(all_hold(inequalities, q))
+        }
+    };
     let product = trim(product);
     let inside = |q: &Q| {
         let x = Extended::Finite(q.clone());
@@ -178,7 +207,8 @@ pub fn split_univariate(
         low_included: bool,
         high: Bound,
         high_included: bool,
-        holds: bool,
+        /// `None`: neither holds nor fails (see `open_at`).
+        holds: Option<bool>,
     }
     let mut elements: Vec<Element> = Vec::new();
     if let (Extended::Finite(q), true) = (&range.low, range.low_included) {
@@ -187,7 +217,7 @@ pub fn split_univariate(
             low_included: true,
             high: Bound::Rational(q.clone()),
             high_included: true,
-            holds: all_hold(inequalities, q),
+            holds: at_rational(q),
         });
     }
     let ends: Vec<(Bound, Option<Q>)> = std::iter::once((bound_of(&range.low), None))
@@ -223,14 +253,15 @@ pub fn split_univariate(
             low_included: false,
             high: ends[i + 1].0.clone(),
             high_included: false,
-            holds: all_hold(inequalities, &sample),
+            holds: Some(all_hold(inequalities, &sample)),
         });
         if i < points.len() {
             // At a cut some N_i or D_i vanishes; a rational cut is decided by value, an
             // irrational one is a zero of some N_i or D_i, where f_i > 0 fails.
             let holds = match &points[i] {
-                Point::Rational(q) => all_hold(inequalities, q),
-                Point::Algebraic(_) => false,
+                Point::Rational(q) => at_rational(q),
+                Point::Algebraic(a) if open_factors.iter().any(|f| a.changes_sign(f)) => None,
+                Point::Algebraic(_) => Some(false),
             };
             let b = points[i].bound();
             elements.push(Element {
@@ -248,12 +279,12 @@ pub fn split_univariate(
             low_included: true,
             high: Bound::Rational(q.clone()),
             high_included: true,
-            holds: all_hold(inequalities, q),
+            holds: at_rational(q),
         });
     }
     let mut holds: Vec<Piece> = Vec::new();
     let mut fails: Vec<Piece> = Vec::new();
-    let mut current: Option<(bool, Piece)> = None;
+    let mut current: Option<(Option<bool>, Piece)> = None;
     for e in elements {
         match &mut current {
             Some((verdict, piece)) if *verdict == e.holds => {
@@ -261,7 +292,7 @@ pub fn split_univariate(
                 piece.high_included = e.high_included;
             }
             _ => {
-                if let Some((verdict, piece)) = current.take() {
+                if let Some((Some(verdict), piece)) = current.take() {
                     if verdict { &mut holds } else { &mut fails }.push(piece);
                 }
                 current = Some((
@@ -276,7 +307,7 @@ pub fn split_univariate(
             }
         }
     }
-    if let Some((verdict, piece)) = current {
+    if let Some((Some(verdict), piece)) = current {
         if verdict { &mut holds } else { &mut fails }.push(piece);
     }
     if integer {
@@ -478,6 +509,23 @@ mod tests {
         assert_eq!(s.holds.len(), 2);
         assert_eq!(s.fails.len(), 1);
         assert_eq!(s.fails[0].low, s.fails[0].high);
+    }
+
+    #[test]
+    fn open_points_are_in_neither_list() {
+        // |x − 2| < 1 on 0 < x < 3, with |x − 2| = 1 (x = 1) left open: holds on (1, 3),
+        // fails on (0, 1).
+        let f = [
+            (vec![q(3, 1), q(-1, 1)], vec![q(1, 1)]),
+            (vec![q(-1, 1), q(1, 1)], vec![q(1, 1)]),
+        ];
+        let open = [vec![q(3, 1), q(-1, 1)], vec![q(-1, 1), q(1, 1)]];
+        let r = range(Some((0, false)), Some((3, false)));
+        let s = split_univariate_open("x", false, &f, &open, &r, 10);
+        assert_eq!(s.holds[0].low, Bound::Rational(q(1, 1)));
+        assert!(!s.holds[0].low_included);
+        assert_eq!(s.fails[0].high, Bound::Rational(q(1, 1)));
+        assert!(!s.fails[0].high_included);
     }
 
     #[test]
