@@ -180,6 +180,11 @@ fn region_strings(region: &Region, notation: Notation) -> (String, String, Optio
     }
 }
 
+/// Where it holds and where it fails, in words, and the note of a linear solution.
+pub fn region_words(region: &Region) -> (String, String, Option<String>) {
+    region_strings(region, Notation::Text)
+}
+
 /// `holds for 1/2 < ρ < 1, fails for 0 < ρ ≤ 1/2` with the given words for both sides.
 pub fn region_text(region: &Region, yes: &str, no: &str) -> String {
     let (holds, fails, note) = region_strings(region, Notation::Text);

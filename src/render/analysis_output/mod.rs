@@ -16,7 +16,7 @@ use crate::analysis::{
 use formula::subscript;
 
 use super::node::Node;
-use super::region::{region_latex, region_text};
+use super::region::{region_latex, region_text, region_words};
 use super::{latex, text, to_node};
 
 pub(super) fn verdict_strings(v: &Verdict) -> (&'static str, Option<&str>) {
@@ -33,11 +33,14 @@ fn requirement_text(r: &Requirement) -> String {
     }
     let (t, _) = inequality_strings(&r.inequality);
     if let (Verdict::Undecided, Some(region)) = (&r.verdict, &r.region) {
-        return format!(
-            "{t}   ({}; {})",
-            r.purpose,
+        // `α > 0 (…; holds for α > 0, …)` says it twice: then only where it fails.
+        let (holds, fails, _) = region_words(region);
+        let words = if holds == t && !fails.is_empty() {
+            format!("fails for {fails}")
+        } else {
             region_text(region, "holds", "fails")
-        );
+        };
+        return format!("{t}   ({}; {words})", r.purpose);
     }
     let (word, why) = verdict_strings(&r.verdict);
     match why {
