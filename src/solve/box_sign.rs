@@ -258,4 +258,53 @@ mod tests {
         // An undeclared parameter decides nothing.
         assert_eq!(box_sign(&RatFunc::var("y"), &[]), None);
     }
+
+    use crate::algebra::Poly;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(300))]
+
+        /// A sign the enclosure proves holds at every sampled point of the box.
+        #[test]
+        fn proven_signs_hold_at_sampled_points(
+            terms in proptest::collection::vec((-3i64..=3, 0u32..=2, 0u32..=2), 1..=4),
+            den in proptest::collection::vec((-3i64..=3, 0u32..=1, 0u32..=1), 1..=2),
+            x_low in -2i64..=1,
+            y_low in -2i64..=1,
+            points in proptest::collection::vec((0i64..40, 0i64..40), 10),
+        ) {
+            let poly = |t: &[(i64, u32, u32)]| {
+                t.iter().fold(Poly::zero(), |acc, (c, ex, ey)| {
+                    let m = &Poly::var("x").pow(*ex) * &Poly::var("y").pow(*ey);
+                    &acc + &m.scale(&q(*c, 1))
+                })
+            };
+            let (n, d) = (poly(&terms), poly(&den));
+            prop_assume!(!d.is_zero());
+            let f = RatFunc::new(n, d).unwrap();
+            let declared = |name: &str, low: i64| Param {
+                lower: Some((q(low, 1), true)),
+                upper: Some((q(low + 4, 1), false)),
+                ..Param::undeclared(name)
+            };
+            let params = [declared("x", x_low), declared("y", y_low)];
+            let Some(sign) = box_sign(&f, &params) else { return Ok(()); };
+            for (a, b) in points {
+                let values = [
+                    ("x".to_string(), q(x_low, 1) + q(a, 10)),
+                    ("y".to_string(), q(y_low, 1) + q(b, 10)),
+                ]
+                .into();
+                let Ok(v) = f.eval(&values) else { continue };
+                let ok = match sign {
+                    BoxSign::Positive => v.is_positive(),
+                    BoxSign::Negative => v.is_negative(),
+                    BoxSign::NonNegative => !v.is_negative(),
+                    BoxSign::NonPositive => !v.is_positive(),
+                };
+                prop_assert!(ok, "{:?} but f = {} at {:?}", sign, v, values);
+            }
+        }
+    }
 }

@@ -556,4 +556,56 @@ mod tests {
             RatFunc::one().checked_div(&RatFunc::var("beta")).unwrap()
         );
     }
+
+    /// Whether `x` lies in the piece (algebraic ends compared by refinement).
+    fn piece_contains(p: &Piece, x: &Q) -> bool {
+        let above = match &p.low {
+            Bound::MinusInfinity => true,
+            Bound::PlusInfinity => false,
+            Bound::Rational(q) => x > q || (x == q && p.low_included),
+            Bound::Algebraic(a) => (**a).clone().is_below(x),
+        };
+        let below = match &p.high {
+            Bound::MinusInfinity => false,
+            Bound::PlusInfinity => true,
+            Bound::Rational(q) => x < q || (x == q && p.high_included),
+            Bound::Algebraic(a) => !(**a).clone().is_below(x),
+        };
+        above && below
+    }
+
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(200))]
+
+        /// Every rational point of the range lies in exactly one piece, and the piece's side
+        /// agrees with the inequalities evaluated there (exact arithmetic).
+        #[test]
+        fn pieces_agree_with_direct_evaluation(
+            n1 in proptest::collection::vec(-4i64..=4, 1..=4),
+            d1 in proptest::collection::vec(-3i64..=3, 1..=3),
+            n2 in proptest::collection::vec(-4i64..=4, 1..=3),
+            low in proptest::option::of((-5i64..=0, any::<bool>())),
+            high in proptest::option::of((1i64..=6, any::<bool>())),
+            points in proptest::collection::vec((-60i64..=60, 1i64..=7), 12),
+        ) {
+            let poly = |c: &[i64]| trim(c.iter().map(|v| q(*v, 1)).collect());
+            let (n1, d1, n2) = (poly(&n1), poly(&d1), poly(&n2));
+            prop_assume!(!n1.is_empty() && !d1.is_empty() && !n2.is_empty());
+            let f = [(n1, d1), (n2, vec![q(1, 1)])];
+            let r = range(low, high);
+            let s = split_univariate("x", false, &f, &r, 8);
+            for (a, b) in points {
+                let x = q(a, b) / q(10, 1);
+                if !r.contains(&x) {
+                    continue;
+                }
+                let in_holds = s.holds.iter().filter(|p| piece_contains(p, &x)).count();
+                let in_fails = s.fails.iter().filter(|p| piece_contains(p, &x)).count();
+                prop_assert_eq!(in_holds + in_fails, 1, "x = {} in {:?}", x, s);
+                prop_assert_eq!(in_holds == 1, all_hold(&f, &x), "x = {}", x);
+            }
+        }
+    }
 }
