@@ -198,12 +198,16 @@ fn finiteness(requirements: &[Requirement]) -> Finiteness {
 /// range is infinite; the region is kept only while it is partial.
 fn settle(f: Finiteness, region: Option<Region>) -> (Finiteness, Option<Region>) {
     match (&f, &region) {
-        (Finiteness::Undecided, Some(Region::Intervals(split))) if split.holds.is_empty() => (
-            Finiteness::Infinite(
-                "no value in the declared range meets all its conditions together".into(),
-            ),
-            None,
-        ),
+        (Finiteness::Undecided, Some(Region::Intervals(split)))
+            if split.everywhere() == Some(false) =>
+        {
+            (
+                Finiteness::Infinite(
+                    "no value in the declared range meets all its conditions together".into(),
+                ),
+                None,
+            )
+        }
         (Finiteness::Undecided, _) => (f, region),
         _ => (f, None),
     }

@@ -44,6 +44,8 @@ pub struct Split {
     pub integer: bool,
     pub holds: Vec<Piece>,
     pub fails: Vec<Piece>,
+    /// Some points of the range are in neither list (the zeros of `open_at`).
+    pub has_open_points: bool,
 }
 
 /// `param > bound` (or `<`) solves the inequality; `bound` depends on `remaining`.
@@ -156,7 +158,8 @@ pub fn split_univariate_open(
         .map(|(r, _)| r)
         .filter(|r| inside(r))
         .collect();
-    let mut irrational = isolate(&squarefree(&cofactor), &range.low, &range.high, digits);
+    // Decimals wait until each cut has its own polynomial (below).
+    let mut irrational = isolate(&squarefree(&cofactor), &range.low, &range.high, 0);
     // Each cut as a root of the smallest factor it comes from (its own N_i or D_i), so that
     // it reads as simply as it can: √2, not a root of the whole product.
     let factors: Vec<Vec<Q>> = inequalities
@@ -170,8 +173,9 @@ pub fn split_univariate_open(
             .iter()
             .filter(|f| a.changes_sign(f))
             .min_by_key(|f| f.len());
-        if let Some(f) = smallest {
-            *a = a.with_factor(f, digits);
+        match smallest {
+            Some(f) => *a = a.with_factor(f, digits),
+            None => a.decimal = a.decimal_digits(digits),
         }
     }
     // Each irrational cut is refined until no rational cut lies in its interval; then the
@@ -284,6 +288,7 @@ pub fn split_univariate_open(
     }
     let mut holds: Vec<Piece> = Vec::new();
     let mut fails: Vec<Piece> = Vec::new();
+    let has_open_points = elements.iter().any(|e| e.holds.is_none());
     let mut current: Option<(Option<bool>, Piece)> = None;
     for e in elements {
         match &mut current {
@@ -319,6 +324,7 @@ pub fn split_univariate_open(
         integer,
         holds,
         fails,
+        has_open_points,
     }
 }
 
@@ -408,6 +414,7 @@ impl Split {
     /// (`Some(false)`), or on part of it (`None`).
     pub fn everywhere(&self) -> Option<bool> {
         match (self.holds.is_empty(), self.fails.is_empty()) {
+            _ if self.has_open_points => None,
             (_, true) => Some(true),
             (true, false) => Some(false),
             _ => None,
@@ -526,6 +533,22 @@ mod tests {
         assert!(!s.holds[0].low_included);
         assert_eq!(s.fails[0].high, Bound::Rational(q(1, 1)));
         assert!(!s.fails[0].high_included);
+        // |x| < 1 on 0 < x ≤ 1: holds below 1, open at 1, so not "everywhere".
+        let f = [
+            (vec![q(1, 1), q(-1, 1)], vec![q(1, 1)]),
+            (vec![q(1, 1), q(1, 1)], vec![q(1, 1)]),
+        ];
+        let open = [f[0].0.clone(), f[1].0.clone()];
+        let s = split_univariate_open(
+            "x",
+            false,
+            &f,
+            &open,
+            &range(Some((0, false)), Some((1, true))),
+            10,
+        );
+        assert!(s.fails.is_empty() && s.has_open_points);
+        assert_eq!(s.everywhere(), None);
     }
 
     #[test]

@@ -223,6 +223,11 @@ pub(super) fn count_roots_between(p: &[Q], a: &Extended, b: &Extended) -> usize 
     if p.len() <= 1 {
         return 0;
     }
+    count_with_chain(&sturm_chain(p), a, b)
+}
+
+/// The Sturm chain p, p′, −rem(p, p′), … (built once for repeated counts).
+pub(super) fn sturm_chain(p: &[Q]) -> Vec<Vec<Q>> {
     let mut chain = vec![p.to_vec(), derivative(p)];
     while chain.last().is_some_and(|q| q.len() > 1) {
         let n = chain.len();
@@ -230,9 +235,16 @@ pub(super) fn count_roots_between(p: &[Q], a: &Extended, b: &Extended) -> usize 
         if r.is_empty() {
             break;
         }
-        chain.push(r.into_iter().map(|c| -c).collect());
+        // A positive factor changes no sign: −r / |lead(r)| keeps the numbers small.
+        let scale = r.last().expect("non-empty remainder").abs();
+        chain.push(r.into_iter().map(|c| -c / &scale).collect());
     }
-    variations(&chain, a).saturating_sub(variations(&chain, b))
+    chain
+}
+
+/// Distinct real roots strictly between `a` and `b` (neither a root), from a Sturm chain.
+pub(super) fn count_with_chain(chain: &[Vec<Q>], a: &Extended, b: &Extended) -> usize {
+    variations(chain, a).saturating_sub(variations(chain, b))
 }
 
 /// The real roots of `p` strictly inside the interval's ends, when all of them are rational.
@@ -629,6 +641,20 @@ mod tests {
             takes_integer_at_least(&e, &1.into(), &p, &fixed),
             Verdict::Sometimes
         );
+    }
+
+    #[test]
+    fn the_integers_a_bounded_image_reaches_are_listed() {
+        // 1/ρ maps (1/4, 1) onto (1, 4): it reaches 2 and 3; on (0, 1) it is unbounded.
+        let f = rho_fn(&[1], &[0, 1]);
+        let none = BTreeMap::new();
+        let p = problem("param rho in (1/4, 1)\na(k)/a(k-1) = rho/k  for k >= 1");
+        assert_eq!(
+            integers_reached(&f, &2.into(), &p, &none),
+            Some(vec![2.into(), 3.into()])
+        );
+        let p = problem("param rho in (0, 1)\na(k)/a(k-1) = rho/k  for k >= 1");
+        assert_eq!(integers_reached(&f, &2.into(), &p, &none), None);
     }
 
     #[test]
