@@ -213,10 +213,14 @@ impl Algebraic {
 
     /// ⌊x⌋ (x is irrational, so ⌈x⌉ = ⌊x⌋ + 1).
     pub fn floor(&mut self) -> BigInt {
-        while self.low.floor() != self.high.floor() || self.high.is_integer() {
-            self.refine();
+        loop {
+            // The first integer above `low`: once it is separated from the number, either
+            // the number lies below it (and above `low`), or `low` has passed it.
+            let next = self.low.floor() + Q::one();
+            if self.is_below(&next) {
+                return (next - Q::one()).to_integer();
+            }
         }
-        self.low.floor().to_integer()
     }
 
     /// The value to `digits` significant digits, correctly rounded (`isolate` with
@@ -356,6 +360,28 @@ mod tests {
         assert_eq!(roots.len(), 1);
         assert_eq!(roots[0].decimal, "2.0945514815423265915");
         assert!(roots[0].radical.is_none());
+    }
+
+    #[test]
+    fn floor_of_a_root_just_below_an_interval_end() {
+        // √3.9 = 1.9748… isolated in (0, 2): the end 2 never moves, the floor is still 1.
+        let p = [q(-39, 10), q(0, 1), q(1, 1)];
+        let mut roots = isolate(
+            &p,
+            &Extended::Finite(q(0, 1)),
+            &Extended::Finite(q(2, 1)),
+            5,
+        );
+        assert_eq!(roots[0].decimal, "1.9748");
+        assert_eq!(roots[0].floor(), 1.into());
+        let p = [q(-41, 10), q(0, 1), q(1, 1)];
+        let mut roots = isolate(
+            &p,
+            &Extended::Finite(q(2, 1)),
+            &Extended::Finite(q(3, 1)),
+            5,
+        );
+        assert_eq!(roots[0].floor(), 2.into());
     }
 
     #[test]

@@ -316,8 +316,8 @@ pub fn split_univariate_open(
         if verdict { &mut holds } else { &mut fails }.push(piece);
     }
     if integer {
-        holds = holds.into_iter().filter_map(integer_piece).collect();
-        fails = fails.into_iter().filter_map(integer_piece).collect();
+        holds = join_integer_pieces(holds.into_iter().filter_map(integer_piece).collect());
+        fails = join_integer_pieces(fails.into_iter().filter_map(integer_piece).collect());
     }
     Split {
         param: param.to_string(),
@@ -326,6 +326,24 @@ pub fn split_univariate_open(
         fails,
         has_open_points,
     }
+}
+
+/// Integer pieces in order, with neighbours (`… ≤ n` then `n + 1 ≤ …`) joined.
+fn join_integer_pieces(pieces: Vec<Piece>) -> Vec<Piece> {
+    let mut out: Vec<Piece> = Vec::new();
+    for piece in pieces {
+        if let Some(last) = out.last_mut() {
+            if let (Bound::Rational(h), Bound::Rational(l)) = (&last.high, &piece.low) {
+                if h + Q::one() == *l {
+                    last.high = piece.high;
+                    last.high_included = piece.high_included;
+                    continue;
+                }
+            }
+        }
+        out.push(piece);
+    }
+    out
 }
 
 /// The integers of a piece as a closed interval with integer ends; `None` when it has none.
@@ -493,6 +511,11 @@ mod tests {
         assert_eq!(s.holds[0].high, Bound::Rational(q(1, 1)));
         assert_eq!(s.fails[0].low, Bound::Rational(q(2, 1)));
         assert_eq!(s.fails[0].high, Bound::PlusInfinity);
+        // (2x − 1)² > 0 fails only at x = 1/2: every integer holds, in one piece.
+        let g = [(vec![q(1, 1), q(-4, 1), q(4, 1)], vec![q(1, 1)])];
+        let s = split_univariate("x", true, &g, &range(Some((-3, true)), Some((3, true))), 10);
+        assert_eq!(s.holds.len(), 1, "{s:?}");
+        assert!(s.fails.is_empty());
     }
 
     #[test]
@@ -621,6 +644,18 @@ mod tests {
             let s = split_univariate("x", false, &f, &r, 8);
             for (a, b) in points {
                 let x = q(a, b) / q(10, 1);
+                if !r.contains(&x) {
+                    continue;
+                }
+                let in_holds = s.holds.iter().filter(|p| piece_contains(p, &x)).count();
+                let in_fails = s.fails.iter().filter(|p| piece_contains(p, &x)).count();
+                prop_assert_eq!(in_holds + in_fails, 1, "x = {} in {:?}", x, s);
+                prop_assert_eq!(in_holds == 1, all_hold(&f, &x), "x = {}", x);
+            }
+            // An integer parameter: every integer of the range, in exactly the right list.
+            let s = split_univariate("x", true, &f, &r, 8);
+            for n in -6..=7 {
+                let x = q(n, 1);
                 if !r.contains(&x) {
                     continue;
                 }
