@@ -177,6 +177,11 @@ fn conditions_of_the_rule_say_where_they_hold() {
         ),
         "{out}"
     );
+    let latex = solve(&[rule, "--format", "latex"]);
+    assert!(
+        latex.contains("(that is, $\\frac{1}{4} < \\rho < \\frac{1}{3} \\text{ or }"),
+        "{latex}"
+    );
     let v = solve_json(&[rule]);
     let open: Vec<&Value> = v["conditions"]
         .as_array()

@@ -8,7 +8,7 @@ use crate::model::{Param, Problem};
 use crate::solve::{Condition, ConditionKind, Solution, Status, SupportEnd};
 
 use super::node::Node;
-use super::region::{region_json, region_text};
+use super::region::{region_json, region_latex, region_text};
 use super::{derivation, formula, latex, text, to_node};
 use crate::analysis::Region;
 
@@ -338,7 +338,14 @@ pub(crate) fn conditions_latex(problem: &Problem, solution: &Solution) -> String
     let index = &problem.index;
     let math = |list: &[&Condition]| -> Vec<String> {
         list.iter()
-            .map(|c| format!("${}$", condition_strings(c).1))
+            .map(|c| match &c.holds_for {
+                Some(split) => format!(
+                    "${}$ (that is, ${}$)",
+                    condition_strings(c).1,
+                    region_latex(&Region::Intervals(split.clone()))
+                ),
+                None => format!("${}$", condition_strings(c).1),
+            })
             .collect()
     };
     let mut out = format!("This holds for ${}$", support_latex(solution, index));
