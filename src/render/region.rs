@@ -26,7 +26,7 @@ fn write(node: &Node, notation: Notation) -> String {
     }
 }
 
-/// An irrational number as a formula: its radical form, or the polynomial it is a root of.
+/// An irrational number in radicals, when it has that form (a root of a quadratic).
 fn algebraic_node(a: &Algebraic) -> Option<Node> {
     let r = a.radical.as_ref()?;
     let root = Node::Call(Function::Sqrt, vec![Node::Int(r.radicand.clone())]);

@@ -440,16 +440,6 @@ impl Split {
     }
 }
 
-/// Whether `x` is negative, for a bound (used by renderers choosing a sign).
-pub fn bound_is_negative(b: &Bound) -> bool {
-    match b {
-        Bound::MinusInfinity => true,
-        Bound::PlusInfinity => false,
-        Bound::Rational(q) => q.is_negative(),
-        Bound::Algebraic(a) => a.high <= Q::zero(),
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
