@@ -8,6 +8,7 @@ pub mod greek;
 pub mod latex;
 pub mod model_output;
 pub mod node;
+pub mod region;
 pub mod report;
 pub mod solve_output;
 pub mod table_output;
