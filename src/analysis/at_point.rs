@@ -88,12 +88,22 @@ pub fn analyse_at(
             return Vec::new();
         }
         rs.iter()
-            .map(|r| Requirement::new(r.inequality.clone(), &r.purpose, values, &problem.params))
+            .map(|r| {
+                Requirement::new(
+                    r.inequality.clone(),
+                    &r.purpose,
+                    values,
+                    &problem.params,
+                    request.digits,
+                )
+            })
             .collect()
     };
     let mut normalization = symbolic.normalization.clone();
     normalization.requirements = decide(&normalization.requirements);
     normalization.finiteness = finiteness(&normalization.requirements);
+    // decided here: the symbolic region is no longer the answer
+    normalization.finite_for = None;
     normalization.finite_support = finite_support;
     if let Finiteness::Infinite(_) = normalization.finiteness {
         normalization.closed_form = None;
@@ -102,6 +112,7 @@ pub fn analyse_at(
     let moment = |m: &Moment| -> Moment {
         let mut m = m.clone();
         m.requirements = decide(&m.requirements);
+        m.finite_for = None;
         m.finiteness = if total_infinite {
             Finiteness::Infinite("the total diverges, so there is no distribution".into())
         } else {

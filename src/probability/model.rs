@@ -86,12 +86,18 @@ pub fn analyse_model(
     } else {
         None
     };
+    // Where the total is finite, when that stays open: the open last piece decides it.
+    let total_region = piece
+        .as_ref()
+        .filter(|_| finiteness == Finiteness::Undecided && !finite_support)
+        .and_then(|p| p.normalization.finite_for.clone());
     let normalization = Normalization {
         base_index: base.clone(),
         series: None,
         closed_form: None,
         requirements: requirements.clone(),
         finiteness: finiteness.clone(),
+        finite_for: total_region,
         value: total_value,
         base_value,
         finite_support,
@@ -131,10 +137,21 @@ pub fn analyse_model(
             }
             _ => (from_piece.unwrap_or(Finiteness::Finite), None),
         };
+        let finite_for = piece
+            .as_ref()
+            .filter(|_| finiteness == Finiteness::Undecided && !finite_support)
+            .and_then(|p| {
+                if j == 1 {
+                    p.mean.finite_for.clone()
+                } else {
+                    p.variance.finite_for.clone()
+                }
+            });
         Moment {
             closed_form: None,
             requirements: reqs,
             finiteness,
+            finite_for,
             value,
         }
     };

@@ -9,6 +9,7 @@ pub mod latex;
 pub mod model_output;
 pub mod node;
 pub mod probability_output;
+pub mod region;
 pub mod report;
 pub mod solve_output;
 pub mod sweep_output;
