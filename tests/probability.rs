@@ -483,3 +483,37 @@ fn far_tails_use_the_closed_form_and_agree_with_mpmath() {
         assert!(bound < 1e-35, "{}: {bound}", p.event.text);
     }
 }
+
+#[test]
+fn closed_forms_of_probabilities_with_symbolic_parameters() {
+    use telescope::render::analysis_output::expr_node;
+    let closed = |model: &str, event: &str| -> Option<String> {
+        let model = build_model(model).unwrap();
+        let solved = solve_model(&model, &BTreeMap::new()).unwrap();
+        let e = parse_event(event, &model.index, &model.params).unwrap();
+        let ps = telescope::probability::probabilities(&solved, &[e], 30);
+        ps[0]
+            .closed_form
+            .as_ref()
+            .map(|e| telescope::render::text::write(&expr_node(e)))
+    };
+    // M/M/1: π(k) = (1 − ρ)ρ^k, so P(k ≥ K) = ρ^K and P(k ≤ K) = 1 − ρ^(K+1) (geometric law,
+    // common practice).
+    let mm1 = "param rho in (0, 1)\nparam K integer >= 1\nbirth(k) = rho ; death(k) = 1";
+    assert_eq!(closed(mm1, "k >= K").as_deref(), Some("ρ^K"));
+    assert_eq!(closed(mm1, "k <= K").as_deref(), Some("1 − ρ^(K + 1)"));
+    // Yule–Simon with s = 5/2 (a(k) ∝ B(k, s+1), Simon 1955): P(k ≥ 2) = Γ(2)Γ(s+1)/Γ(2+s)
+    // = 1/(s+1) = 2/7 by the telescoping of B(k, s) above.
+    assert_eq!(
+        closed("a(k)/a(k-1) = (k-1)/(k+5/2) for k >= 2", "k >= 2").as_deref(),
+        Some("2/7")
+    );
+    // Partial sums of a binomial law have no closed form (a 2F1 away from 1): none is claimed.
+    assert_eq!(
+        closed(
+            "param N integer >= 1\nparam p in (0, 1)\na(k)/a(k-1) = (N-k+1)/k * p/(1-p) for k >= 1",
+            "k >= 2"
+        ),
+        None
+    );
+}
