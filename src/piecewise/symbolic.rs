@@ -70,7 +70,7 @@ pub fn has_symbolic_breakpoints(model: &Model, values: &BTreeMap<String, Q>) -> 
 }
 
 /// `R(s + j)` as a rule in j.
-fn shifted_ratio(ratio: &Ratio, s: &RatFunc) -> Ratio {
+pub fn shifted_ratio(ratio: &Ratio, s: &RatFunc) -> Ratio {
     Ratio {
         constant: ratio.constant.clone(),
         factors: ratio

@@ -12,8 +12,7 @@ use crate::algebra::{RatFunc, Q};
 use crate::analysis::{closed_sum, Atom, Expr, HyperSeries, RisingForm, Term};
 use crate::closed_form::{Factor, Product};
 use crate::model::Problem;
-use crate::piecewise::symbolic::product_at;
-use crate::ratio::{LinearFactor, Orientation, Ratio};
+use crate::piecewise::symbolic::{product_at, shifted_ratio};
 use crate::solve::Solution;
 
 use super::spec::Event;
@@ -79,30 +78,12 @@ fn product_term(p: &Product) -> Option<Term> {
     (!pole).then(|| Term { coefficient, atoms }.normalized())
 }
 
-/// `R(L − 1 + j)`: the rule in the local index j, whose base j = 0 is k = L − 1.
-fn shifted(ratio: &Ratio, by: &RatFunc) -> Ratio {
-    Ratio {
-        constant: ratio.constant.clone(),
-        factors: ratio
-            .factors
-            .iter()
-            .map(|f| LinearFactor {
-                shift: match f.orientation {
-                    Orientation::Rising => &f.shift + by,
-                    Orientation::Falling => &f.shift - by,
-                },
-                ..f.clone()
-            })
-            .collect(),
-    }
-}
-
 /// `T(L) = P(k ≥ L)` for a symbolic L (at least the first index b + 1).
 fn at_least(problem: &Problem, solution: &Solution, total: &Term, lower: &RatFunc) -> Option<Term> {
     // a(L)/a(b): the closed form, which counts k from b, at k = L.
     let a_l = product_term(&product_at(&solution.simplest.product, lower))?;
     // S_L from the rule shifted so that its base term is a(L): j = k − L, rule for j ≥ 1.
-    let local = shifted(&problem.ratio, lower);
+    let local = shifted_ratio(&problem.ratio, lower);
     let series = HyperSeries::of_sum(&RisingForm::from_ratio(&local), &BigInt::from(0));
     let (s_l, _) = closed_sum(&series)?;
     Some(a_l.mul(&s_l).mul(&total.inv()?))

@@ -261,23 +261,27 @@ impl<'a> Law<'a> {
     }
 
     fn report(&self, s: &Sum, method: String, check: Option<&Float>) -> Value {
-        let digits = self.support.digits;
-        match &s.exact {
-            Some(q) => Value {
-                value: decimal::rational_to_decimal(q, digits),
-                exact: Some(q.to_string()),
-                error_bound: "0".into(),
-                method,
-                check_rel_diff: check.map(decimal::short),
-            },
-            None => Value {
-                value: decimal::float_to_decimal(&s.value, digits),
-                exact: None,
-                error_bound: decimal::short(&s.error),
-                method,
-                check_rel_diff: check.map(decimal::short),
-            },
-        }
+        value_of(s, method, check, self.support.digits)
+    }
+}
+
+/// A sum as reported: exact rational or decimal with its bound.
+pub(crate) fn value_of(s: &Sum, method: String, check: Option<&Float>, digits: u32) -> Value {
+    match &s.exact {
+        Some(q) => Value {
+            value: decimal::rational_to_decimal(q, digits),
+            exact: Some(q.to_string()),
+            error_bound: "0".into(),
+            method,
+            check_rel_diff: check.map(decimal::short),
+        },
+        None => Value {
+            value: decimal::float_to_decimal(&s.value, digits),
+            exact: None,
+            error_bound: decimal::short(&s.error),
+            method,
+            check_rel_diff: check.map(decimal::short),
+        },
     }
 }
 

@@ -293,22 +293,7 @@ pub fn normalized_piecewise_table(
 }
 
 fn to_report(s: &Sum, method: String, check: Option<&Float>, digits: u32) -> NumberReport {
-    match &s.exact {
-        Some(q) => NumberReport {
-            value: decimal::rational_to_decimal(q, digits),
-            exact: Some(q.to_string()),
-            error_bound: "0".into(),
-            method,
-            check: check.map(decimal::short),
-        },
-        None => NumberReport {
-            value: decimal::float_to_decimal(&s.value, digits),
-            exact: None,
-            error_bound: decimal::short(&s.error),
-            method,
-            check: check.map(decimal::short),
-        },
-    }
+    value_report(&super::value_of(s, method, check, digits))
 }
 
 fn value_report(v: &Value) -> NumberReport {
