@@ -459,8 +459,30 @@ fn symbolic_breakpoints_give_each_piece_and_the_total_with_sigma() {
     ] {
         assert!(text.contains(line), "missing {line}:\n{text}");
     }
-    // --prob needs the breakpoint's value.
-    let out = common::telescope(&["solve", "examples/repair_counter.rule", "--prob", "k >= c"]);
+    // Events on a breakpoint have symbolic probabilities: Erlang C's P(wait) and, for the
+    // loss system, Erlang's B formula (A^c/c!)/Σ_{j≤c} A^j/j! (Erlang 1917) exactly.
+    let out = common::telescope(&[
+        "solve",
+        "examples/repair_counter.rule",
+        "--prob",
+        "k >= c",
+        "--prob",
+        "k >= 2",
+    ]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("P(k ≥ c) = ((λ/μ)^c/c! + (λ/μ)^c/c!·λ/(c·μ − λ))/(Σ_{j=0}^{c} (λ/μ)^j/j! + (λ/μ)^c/c!·λ/(c·μ − λ))"), "{text}");
+    assert!(
+        text.contains("P(k ≥ 2): needs the breakpoints' values"),
+        "{text}"
+    );
+    let out = common::telescope(&["solve", "examples/parking_garage.rule", "--prob", "k = c"]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        text.contains("P(k = c) = ((λ/μ)^c/c!)/(Σ_{j=0}^{c} (λ/μ)^j/j!)"),
+        "{text}"
+    );
+    // --normalize needs numbers.
+    let out = common::telescope(&["solve", "examples/repair_counter.rule", "--normalize"]);
     assert_eq!(out.status.code(), Some(2));
 }
 
