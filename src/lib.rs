@@ -20,6 +20,7 @@ pub mod diagnostic;
 pub mod model;
 pub mod numeric;
 pub mod piecewise;
+pub mod probability;
 pub mod ratio;
 pub mod render;
 pub mod session;
