@@ -86,23 +86,22 @@ pub fn analyse_model(
     } else {
         None
     };
-    // Where the total is finite, when that stays open: the open last piece decides it.
-    let total_region = piece
-        .as_ref()
-        .filter(|_| finiteness == Finiteness::Undecided && !finite_support)
-        .and_then(|p| p.normalization.finite_for.clone());
     let normalization = Normalization {
         base_index: base.clone(),
         series: None,
         closed_form: None,
         requirements: requirements.clone(),
         finiteness: finiteness.clone(),
-        finite_for: total_region,
         value: total_value,
         base_value,
         finite_support,
         numeric_note,
         parts,
+        // Where the ranges leave the total open, the open last piece says where it is finite.
+        finite_for: match (&piece, &finiteness) {
+            (Some(p), Finiteness::Undecided) => p.normalization.finite_for.clone(),
+            _ => None,
+        },
     };
     let moments = law.as_ref().map(|l| l.moments());
     let moment = |j: usize| -> Moment {
@@ -137,22 +136,17 @@ pub fn analyse_model(
             }
             _ => (from_piece.unwrap_or(Finiteness::Finite), None),
         };
-        let finite_for = piece
-            .as_ref()
-            .filter(|_| finiteness == Finiteness::Undecided && !finite_support)
-            .and_then(|p| {
-                if j == 1 {
-                    p.mean.finite_for.clone()
-                } else {
-                    p.variance.finite_for.clone()
-                }
-            });
+        let finite_for = match (&piece, &finiteness) {
+            (Some(p), Finiteness::Undecided) if j == 1 => p.mean.finite_for.clone(),
+            (Some(p), Finiteness::Undecided) => p.variance.finite_for.clone(),
+            _ => None,
+        };
         Moment {
             closed_form: None,
             requirements: reqs,
             finiteness,
-            finite_for,
             value,
+            finite_for,
         }
     };
     let (mean, variance) = (moment(1), moment(2));
@@ -310,22 +304,7 @@ pub fn normalized_piecewise_table(
 }
 
 fn to_report(s: &Sum, method: String, check: Option<&Float>, digits: u32) -> NumberReport {
-    match &s.exact {
-        Some(q) => NumberReport {
-            value: decimal::rational_to_decimal(q, digits),
-            exact: Some(q.to_string()),
-            error_bound: "0".into(),
-            method,
-            check: check.map(decimal::short),
-        },
-        None => NumberReport {
-            value: decimal::float_to_decimal(&s.value, digits),
-            exact: None,
-            error_bound: decimal::short(&s.error),
-            method,
-            check: check.map(decimal::short),
-        },
-    }
+    value_report(&super::value_of(s, method, check, digits))
 }
 
 fn value_report(v: &Value) -> NumberReport {
