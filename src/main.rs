@@ -95,6 +95,44 @@ enum Command {
         #[arg(long, value_enum, default_value_t = CheckFormat::Text)]
         format: CheckFormat,
     },
+    /// The answers across a parameter range (or a grid of two): rate, exponent, total, moments.
+    Sweep {
+        /// A rule in quotes, a model file, or - for standard input.
+        input: String,
+        /// The varied parameter and its range, NAME=A..B; twice for a grid.
+        #[arg(long, value_name = "NAME=A..B", required = true)]
+        vary: Vec<String>,
+        /// Points along each varied parameter, ends included (default 51).
+        #[arg(long, value_name = "N")]
+        points: Option<u64>,
+        /// Walk from A by this step instead (exact: 0.05 or 1/20).
+        #[arg(long, value_name = "S")]
+        step: Option<String>,
+        /// Log-spaced points (and a log axis in SVG).
+        #[arg(long)]
+        log: bool,
+        #[arg(long = "param", value_name = "NAME=VALUE")]
+        params: Vec<String>,
+        /// Comma-separated: rate, theta, prefactor, total, mean, variance, a(K).
+        #[arg(long, value_name = "LIST")]
+        quantities: Option<String>,
+        /// Significant digits of every number.
+        #[arg(long, default_value_t = 30)]
+        digits: u32,
+        #[arg(long, value_enum, default_value_t = SweepFormat::Text)]
+        format: SweepFormat,
+        /// No progress bar.
+        #[arg(long)]
+        quiet: bool,
+    },
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum SweepFormat {
+    Text,
+    Csv,
+    Json,
+    Svg,
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -217,6 +255,37 @@ fn run(cli: Cli) -> Result<String, Error> {
             Ok(render::solve_report(
                 &model, &solved, &report, format, layout,
             ))
+        }
+        Command::Sweep {
+            input,
+            vary,
+            points,
+            step,
+            log,
+            params,
+            quantities,
+            digits,
+            format,
+            quiet,
+        } => {
+            use telescope::sweep::command::{run_command, SweepArgs, SweepFormat as Out};
+            run_command(SweepArgs {
+                input,
+                vary,
+                points,
+                step,
+                log,
+                params,
+                quantities,
+                digits,
+                format: match format {
+                    SweepFormat::Text => Out::Text,
+                    SweepFormat::Csv => Out::Csv,
+                    SweepFormat::Json => Out::Json,
+                    SweepFormat::Svg => Out::Svg,
+                },
+                quiet,
+            })
         }
         Command::Table {
             input,

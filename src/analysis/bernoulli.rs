@@ -26,11 +26,18 @@ pub fn bernoulli_numbers(n: usize) -> Vec<Q> {
 }
 
 /// `B_0 … B_n` in GMP rationals (the same recurrence, DLMF 24.5.3): the long lists the
-/// Euler–Maclaurin sums need are much faster this way.
+/// Euler–Maclaurin sums need are much faster this way. The numbers are kept once computed
+/// (a sweep sums at every point, and each sum wants the same list).
 pub fn bernoulli_numbers_gmp(n: usize) -> Vec<rug::Rational> {
-    let mut b: Vec<rug::Rational> = Vec::with_capacity(n + 1);
-    b.push(rug::Rational::from(1));
-    for m in 2..=n + 1 {
+    static KNOWN: std::sync::Mutex<Vec<rug::Rational>> = std::sync::Mutex::new(Vec::new());
+    // A poisoned lock only means another thread panicked mid-extension; the list is
+    // extended one whole number at a time, so what it holds is still right.
+    let mut b = KNOWN.lock().unwrap_or_else(|e| e.into_inner());
+    if b.is_empty() {
+        b.push(rug::Rational::from(1));
+    }
+    while b.len() < n + 1 {
+        let m = b.len() + 1;
         let mut sum = rug::Rational::new();
         let mut binom = rug::Integer::from(1);
         for (j, bj) in b.iter().enumerate() {
@@ -40,8 +47,7 @@ pub fn bernoulli_numbers_gmp(n: usize) -> Vec<rug::Rational> {
         }
         b.push(-sum / rug::Rational::from(m as u64));
     }
-    b.truncate(n + 1);
-    b
+    b[..=n].to_vec()
 }
 
 /// `B_n(x) = Σ_j C(n, j) B_j x^(n−j)` (DLMF 24.2.5), by Horner's scheme in `x`.

@@ -12,6 +12,7 @@
 //! assert_eq!(analysis.normalization.value.unwrap().exact.as_deref(), Some("7/5"));
 //! ```
 
+pub mod at_point;
 pub mod bernoulli;
 pub mod conditions;
 pub mod hurwitz;

@@ -282,7 +282,12 @@ impl Numbers {
     }
 }
 
-fn number(b: &Bounded, method: &str, check: Option<String>, digits: u32) -> NumberReport {
+pub(super) fn number(
+    b: &Bounded,
+    method: &str,
+    check: Option<String>,
+    digits: u32,
+) -> NumberReport {
     let (value, exact) = match &b.exact {
         Some(q) => (
             decimal::rational_to_decimal(q, digits),

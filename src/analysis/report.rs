@@ -192,7 +192,7 @@ fn convergence(tail: &Tail, j: i64) -> Option<Inequality> {
     }
 }
 
-fn finiteness(requirements: &[Requirement]) -> Finiteness {
+pub(super) fn finiteness(requirements: &[Requirement]) -> Finiteness {
     for r in requirements {
         if let Verdict::Fails(why) = &r.verdict {
             return Finiteness::Infinite(why.clone());

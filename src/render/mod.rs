@@ -12,6 +12,8 @@ pub mod probability_output;
 pub mod region;
 pub mod report;
 pub mod solve_output;
+pub mod sweep_output;
+pub mod sweep_svg;
 pub mod symbolic_output;
 pub mod table_output;
 pub mod text;

@@ -223,7 +223,7 @@ fn param_range(p: &Param, latex_out: bool) -> Option<String> {
     }
 }
 
-fn param_range_text(p: &Param) -> Option<String> {
+pub(crate) fn param_range_text(p: &Param) -> Option<String> {
     param_range(p, false)
 }
 

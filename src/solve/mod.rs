@@ -11,6 +11,9 @@ pub mod ranges;
 mod support;
 mod telescope;
 
+/// The rule's own conditions (without the simplest form's), for callers that decide them at
+/// many points (`sweep`).
+pub use support::conditions as rule_conditions;
 pub use support::{Condition, ConditionKind, Status, Support, SupportEnd};
 pub use telescope::telescope;
 

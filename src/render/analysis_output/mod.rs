@@ -2,7 +2,7 @@
 //! LaTeX and the JSON fields `tail`, `normalization`, `mean`, `variance`. Layout only: every
 //! number and formula comes from `analysis`.
 
-mod formula;
+pub(crate) mod formula;
 mod json;
 
 pub use formula::{expr_node, inequality_strings, ratfunc_node, series_strings, term_node};
