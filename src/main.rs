@@ -5,6 +5,7 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand, ValueEnum};
 
 use telescope::analysis::{analyse, AnalysisRequest};
+use telescope::html_report;
 use telescope::piecewise::build_piecewise_table;
 use telescope::render;
 use telescope::session::{self, Error};
@@ -72,6 +73,24 @@ enum Command {
         #[arg(long, value_enum, default_value_t = TableFormat::Text)]
         format: TableFormat,
     },
+    /// A self-contained HTML page: formulas (MathML), derivation, evidence table and plots.
+    Report {
+        /// A rule in quotes, a model file, or - for standard input.
+        input: String,
+        #[arg(long = "param", value_name = "NAME=VALUE")]
+        params: Vec<String>,
+        /// Significant digits of every number on the page.
+        #[arg(long, default_value_t = 30)]
+        digits: u32,
+        /// The rows of the evidence table and the plots, A..B (default: from the support and
+        /// the tail).
+        #[arg(long = "k", value_name = "A..B")]
+        k: Option<String>,
+        /// The page's file (default: the model file's stem + .html, or report.html); - for
+        /// standard output.
+        #[arg(short = 'o', long = "output", value_name = "FILE")]
+        output: Option<String>,
+    },
     /// Prove or refute a claimed closed form, and say what is wrong with it.
     Check {
         /// A rule in quotes, a model file, or - for standard input.
@@ -110,6 +129,8 @@ enum TableFormat {
     Text,
     Csv,
     Json,
+    /// Plot (1) of the report alone: a(k) against k, as SVG.
+    Svg,
 }
 
 /// Largest `--digits` accepted.
@@ -191,6 +212,36 @@ fn run(cli: Cli) -> Result<String, Error> {
                 &model, &solved, &report, format, layout,
             ))
         }
+        Command::Report {
+            input,
+            params,
+            digits,
+            k,
+            output,
+        } => {
+            if digits == 0 || digits > MAX_SOLVE_DIGITS {
+                return Err(Error::Usage(format!(
+                    "--digits {digits}: choose 1 to {MAX_SOLVE_DIGITS}"
+                )));
+            }
+            let request = html_report::ReportRequest {
+                input_arg: input.clone(),
+                params,
+                digits,
+                k,
+                terms: 2,
+            };
+            let text = session::read_input(&input)?;
+            let page = html_report::build_report(&text, &request)?;
+            let html = render::html::report_html(&page);
+            match output.as_deref() {
+                Some("-") => Ok(html),
+                Some(path) => html_report::write_atomically(std::path::Path::new(path), &html)
+                    .map(|()| String::new()),
+                None => html_report::write_atomically(&html_report::default_output(&input), &html)
+                    .map(|()| String::new()),
+            }
+        }
         Command::Table {
             input,
             k,
@@ -238,6 +289,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                     TableFormat::Json => {
                         pretty(&render::analysis_output::normalized_table_json(&table))
                     }
+                    TableFormat::Svg => html_report::table_svg(&solved, &table.table)?,
                 });
             }
             let built = if model.is_piecewise() {
@@ -254,6 +306,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                 TableFormat::Text => render::table_text(&table),
                 TableFormat::Csv => render::table_csv(&table),
                 TableFormat::Json => pretty(&render::table_json(&table)),
+                TableFormat::Svg => html_report::table_svg(&solved, &table)?,
             })
         }
     }

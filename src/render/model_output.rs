@@ -51,7 +51,7 @@ fn rate_call(name: &str, model: &Model, shift: i64) -> Node {
 }
 
 /// The lines of one piece's derivation as (label, formula node pair or words).
-enum Line {
+pub(crate) enum Line {
     Formula(&'static str, Node, Node),
     Words(&'static str, String),
 }
@@ -72,7 +72,7 @@ fn assumption_words(a: &Assumption, model: &Model) -> String {
     }
 }
 
-fn piece_lines(model: &Model, piece: &Piece) -> Vec<Line> {
+pub(crate) fn piece_lines(model: &Model, piece: &Piece) -> Vec<Line> {
     let mut lines = Vec::new();
     let ratio_lhs = Node::frac(term(model, 0), term(model, -1));
     match &piece.derivation.source {
@@ -152,7 +152,7 @@ fn piece_lines(model: &Model, piece: &Piece) -> Vec<Line> {
     lines
 }
 
-fn range_words(model: &Model, piece: &Piece) -> String {
+pub(crate) fn range_words(model: &Model, piece: &Piece) -> String {
     let k = &model.index;
     let first = text::write(&to_node::ratfunc(&piece.first));
     match &piece.last {
@@ -173,7 +173,7 @@ fn range_latex(model: &Model, piece: &Piece) -> String {
     }
 }
 
-fn boundary_nodes(model: &Model) -> Option<(Node, Node)> {
+pub(crate) fn boundary_nodes(model: &Model) -> Option<(Node, Node)> {
     model.boundary.as_ref().map(|b| {
         (
             Node::Term(model.sequence.clone(), Box::new(Node::Int(b.index.clone()))),
@@ -363,7 +363,7 @@ fn tail_words(sum: &PiecewiseSum) -> (String, String) {
     }
 }
 
-fn sum_json(sum: &PiecewiseSum) -> Value {
+pub(crate) fn sum_json(sum: &PiecewiseSum) -> Value {
     let (tail, total) = match &sum.tail {
         TailSum::Exact(t) => (
             json!(t.to_string()),
