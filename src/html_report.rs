@@ -224,8 +224,12 @@ fn tail_law_curve(
     if !tail.law.rate.is_one() {
         label += "·r^k";
     }
-    if tail.law.factorial_power != 0 {
-        label += &format!("·(k/e)^({}k)", tail.law.factorial_power);
+    match tail.law.factorial_power {
+        0 => {}
+        1 => label += "·(k/e)^k",
+        -1 => label += "·(k/e)^(−k)",
+        d if d < 0 => label += &format!("·(k/e)^(−{}k)", -d),
+        d => label += &format!("·(k/e)^({d}k)"),
     }
     if !tail.law.power.is_zero() {
         label += "·k^θ";

@@ -303,7 +303,7 @@ fn draw_panel(
             chart
                 .draw_series(std::iter::once(
                     EmptyElement::at((x_ticks.low, y))
-                        + Text::new(rule.label.clone(), (6, -16), label_font.clone()),
+                        + Text::new(rule.label.clone(), (6, 4), label_font.clone()),
                 ))
                 .map_err(plot_error)?;
         }
@@ -337,7 +337,7 @@ fn draw_panel(
                 SeriesStyle::Markers => chart
                     .draw_series(
                         run.into_iter()
-                            .map(|p| Circle::new(p, 3, color.stroke_width(1))),
+                            .map(|p| Circle::new(p, 4, color.stroke_width(1))),
                     )
                     .map_err(plot_error)?,
             };

@@ -71,3 +71,26 @@ pub fn telescope(args: &[&str]) -> Output {
         .output()
         .expect("binary runs")
 }
+
+/// Demo values for an example's parameters, chosen inside each declared range (invented
+/// numbers, only to exercise the page): the middle of a bounded range, 3/2 above a lower
+/// bound, 4 for integers.
+pub fn demo_params(name: &str, text: &str) -> Vec<String> {
+    let model =
+        telescope::model::build_model(text).unwrap_or_else(|e| panic!("{name}: {}", e.message));
+    model
+        .params
+        .iter()
+        .map(|p| {
+            let value: Q = match (&p.lower, &p.upper, p.integer) {
+                (Some((lo, _)), _, true) => lo + Q::from_integer(3.into()),
+                (None, _, true) => Q::from_integer(4.into()),
+                (Some((lo, _)), Some((hi, _)), false) => (lo + hi) / Q::from_integer(2.into()),
+                (Some((lo, _)), None, false) => lo + Q::new(3.into(), 2.into()),
+                (None, Some((hi, _)), false) => hi - Q::from_integer(1.into()),
+                (None, None, false) => Q::new(3.into(), 2.into()),
+            };
+            format!("{}={value}", p.name)
+        })
+        .collect()
+}

@@ -66,9 +66,10 @@ fn table_html(page: &ReportPage, table: &Table) -> String {
         }
         if let Some(p) = previous {
             if i > p + 1 {
+                let skipped = i - p - 1;
+                let word = if skipped == 1 { "row" } else { "rows" };
                 out += &format!(
-                    "<tr class=\"gap\"><td colspan=\"4\">⋯ {} rows ⋯</td></tr>\n",
-                    i - p - 1
+                    "<tr class=\"gap\"><td colspan=\"4\">⋯ {skipped} {word} ⋯</td></tr>\n"
                 );
             }
         }

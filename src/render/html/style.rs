@@ -28,7 +28,8 @@ th, td { text-align: left; vertical-align: top; padding: 0.3rem 0.6rem 0.3rem 0;
 th { font-weight: normal; font-style: italic; color: var(--muted); border-bottom: 1px solid var(--ink); }
 td.number, .value { font-family: "DejaVu Sans Mono", Menlo, Consolas, monospace; font-size: 0.8rem; overflow-wrap: anywhere; }
 table.evidence td.number { font-size: 0.72rem; }
-tr.gap td { text-align: center; color: var(--muted); }
+tr.gap td { text-align: center; color: var(--muted); font-size: 0.8rem; padding: 0.05rem 0; }
+table.evidence td:first-child { white-space: nowrap; }
 tr.checked td:first-child::after { content: " ✓"; color: #3c7a3f; }
 pre { background: #f6f3ea; border: 1px solid var(--rule); padding: 0.7rem 0.9rem; overflow-x: auto; font-size: 0.85rem; line-height: 1.45; white-space: pre-wrap; overflow-wrap: anywhere; }
 figure { margin: 1.2rem 0; }
