@@ -18,6 +18,7 @@ fn request() -> ReportRequest {
         digits: 30,
         k: None,
         terms: 2,
+        prob: Vec::new(),
     }
 }
 

@@ -14,6 +14,7 @@ use crate::analysis::{analyse, Analysis, AnalysisRequest, TailReport};
 use crate::numeric::{rational_to_decimal, to_rug_rational};
 use crate::piecewise::build_piecewise_table;
 use crate::plot::PlotNumber;
+use crate::probability::{analyse_model, probabilities};
 use crate::render::figures::{PlotContext, TailCurve};
 use crate::render::html::ReportPage;
 use crate::session::{self, Error, Input};
@@ -32,6 +33,8 @@ pub struct ReportRequest {
     pub k: Option<String>,
     /// Correction terms of the tail law.
     pub terms: usize,
+    /// `--prob` events under the normalised law ("k >= 10", "2 <= k <= N").
+    pub prob: Vec<String>,
 }
 
 /// Rows of the default table: a power-law tail over four decades, a geometric or faster
@@ -56,19 +59,20 @@ pub fn build_report(input: &Input, request: &ReportRequest) -> Result<ReportPage
         .filter(|p| !values.contains_key(&p.name))
         .map(|p| p.name.clone())
         .collect();
-    let (sum, analysis) = if model.is_piecewise() {
-        (session::model_sum(&model, &solved, request.digits)?, None)
-    } else {
-        let analysis_request = AnalysisRequest {
-            terms: request.terms,
-            digits: request.digits,
-            normalize: false,
-        };
-        let piece = &solved.pieces[0];
-        let analysis =
-            analyse(&piece.problem, &piece.solution, &analysis_request).map_err(to_error)?;
-        (None, Some(analysis))
+    let analysis_request = AnalysisRequest {
+        terms: request.terms,
+        digits: request.digits,
+        normalize: false,
     };
+    let analysis = if model.is_piecewise() {
+        analyse_model(&solved, &analysis_request).map_err(to_error)?
+    } else {
+        let piece = &solved.pieces[0];
+        analyse(&piece.problem, &piece.solution, &analysis_request).map_err(to_error)?
+    };
+    let analysis = Some(analysis);
+    let events = session::parse_events(&model, &request.prob)?;
+    let probabilities = probabilities(&solved, &events, request.digits);
 
     let mut table = None;
     let mut k_range = None;
@@ -111,7 +115,7 @@ pub fn build_report(input: &Input, request: &ReportRequest) -> Result<ReportPage
         model,
         solved,
         analysis,
-        sum,
+        probabilities,
         table,
         tail_curve,
         log_index,
@@ -266,6 +270,12 @@ fn reproduce_commands(request: &ReportRequest, rows: Option<&(BigInt, BigInt)>) 
         .iter()
         .map(|p| format!(" --param {}", shell_word(p)))
         .collect();
+    let params: String = params
+        + &request
+            .prob
+            .iter()
+            .map(|p| format!(" --prob {}", shell_word(p)))
+            .collect::<String>();
     let digits = format!(" --digits {}", request.digits);
     let k = rows
         .map(|(a, b)| format!(" --k {a}..{b}"))

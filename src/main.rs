@@ -7,6 +7,7 @@ use clap::{Parser, Subcommand, ValueEnum};
 use telescope::analysis::{analyse, AnalysisRequest};
 use telescope::html_report;
 use telescope::piecewise::build_piecewise_table;
+use telescope::probability::{analyse_model, normalized_piecewise_table};
 use telescope::render;
 use telescope::session::{self, Error};
 use telescope::table::{build_normalized_table, build_table, TableRequest};
@@ -48,6 +49,10 @@ enum Command {
         /// Treat the sequence as a probability distribution: a(b) so that the total is 1.
         #[arg(long)]
         normalize: bool,
+        /// A probability under the normalised law: "k >= K", "k <= K", "K1 <= k <= K2",
+        /// "k = K", bounds in the parameters (repeatable).
+        #[arg(long = "prob", value_name = "EVENT", allow_hyphen_values = true)]
+        prob: Vec<String>,
     },
     /// Direct products next to the closed form, with their relative difference.
     Table {
@@ -90,6 +95,10 @@ enum Command {
         /// standard output.
         #[arg(short = 'o', long = "output", value_name = "FILE")]
         output: Option<String>,
+        /// A probability under the normalised law: "k >= K", "k <= K", "K1 <= k <= K2",
+        /// "k = K" (repeatable).
+        #[arg(long = "prob", value_name = "EVENT", allow_hyphen_values = true)]
+        prob: Vec<String>,
     },
     /// Prove or refute a claimed closed form, and say what is wrong with it.
     Check {
@@ -155,6 +164,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             terms,
             digits,
             normalize,
+            prob,
         } => {
             if standalone && !matches!(format, SolveFormat::Latex) {
                 return Err(Error::Usage(
@@ -175,28 +185,44 @@ fn run(cli: Cli) -> Result<String, Error> {
             let input = session::read_input(&input)?;
             let model = session::load_model(&input)?;
             let values = session::parse_values_for(&model.params, &params)?;
+            if model.is_piecewise()
+                && telescope::piecewise::symbolic::has_symbolic_breakpoints(&model, &values)
+            {
+                if normalize || !prob.is_empty() {
+                    return Err(Error::Usage(
+                        "--normalize and --prob need the breakpoints' values (--param c=…); without them solve gives the symbolic forms".into(),
+                    ));
+                }
+                let symbolic = telescope::piecewise::symbolic::solve_symbolic(&model, &values)
+                    .map_err(|diagnostic| Error::Input {
+                        input: input.clone(),
+                        diagnostic,
+                    })?;
+                return Ok(match format {
+                    SolveFormat::Text => render::symbolic_output::symbolic_text(&model, &symbolic),
+                    SolveFormat::Latex => render::symbolic_output::symbolic_latex(&symbolic),
+                    SolveFormat::Json => {
+                        pretty(&render::symbolic_output::symbolic_json(&model, &symbolic))
+                    }
+                });
+            }
             let solved = session::run_solve_model(&input, &model, &values)?;
+            let events = session::parse_events(&model, &prob)?;
+            let probabilities = telescope::probability::probabilities(&solved, &events, digits);
             let to_error = |diagnostic| Error::Input {
                 input: input.clone(),
                 diagnostic,
             };
-            let (sum, analysis) = if model.is_piecewise() {
-                if normalize {
-                    return Err(Error::Usage(
-                        "--normalize is not available for piecewise models yet; without --normalize, solve prints the exact sum over the pieces".into(),
-                    ));
-                }
-                (session::model_sum(&model, &solved, digits)?, None)
+            let request = AnalysisRequest {
+                terms,
+                digits,
+                normalize,
+            };
+            let analysis = if model.is_piecewise() {
+                analyse_model(&solved, &request).map_err(to_error)?
             } else {
-                let request = AnalysisRequest {
-                    terms,
-                    digits,
-                    normalize,
-                };
                 let piece = &solved.pieces[0];
-                let analysis =
-                    analyse(&piece.problem, &piece.solution, &request).map_err(to_error)?;
-                (None, Some(analysis))
+                analyse(&piece.problem, &piece.solution, &request).map_err(to_error)?
             };
             let format = match format {
                 SolveFormat::Text => render::SolveFormat::Text,
@@ -204,9 +230,9 @@ fn run(cli: Cli) -> Result<String, Error> {
                 SolveFormat::Json => render::SolveFormat::Json,
             };
             let report = render::SolveReport {
-                sum: sum.as_ref(),
-                analysis: analysis.as_ref(),
+                analysis: Some(&analysis),
                 digits,
+                probabilities: &probabilities,
             };
             Ok(render::solve_report(
                 &model, &solved, &report, format, layout,
@@ -218,6 +244,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             digits,
             k,
             output,
+            prob,
         } => {
             if digits == 0 || digits > MAX_SOLVE_DIGITS {
                 return Err(Error::Usage(format!(
@@ -230,6 +257,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                 digits,
                 k,
                 terms: 2,
+                prob,
             };
             let text = session::read_input(&input)?;
             let page = html_report::build_report(&text, &request)?;
@@ -275,14 +303,13 @@ fn run(cli: Cli) -> Result<String, Error> {
                 diagnostic,
             };
             if normalize {
-                if model.is_piecewise() {
-                    return Err(Error::Usage(
-                        "--normalize is not available for piecewise tables yet".into(),
-                    ));
+                let table = if model.is_piecewise() {
+                    normalized_piecewise_table(&solved, &request, model.pieces[0].span.clone())
+                } else {
+                    let piece = &solved.pieces[0];
+                    build_normalized_table(&piece.problem, &piece.solution, &request)
                 }
-                let piece = &solved.pieces[0];
-                let table = build_normalized_table(&piece.problem, &piece.solution, &request)
-                    .map_err(to_error)?;
+                .map_err(to_error)?;
                 return Ok(match format {
                     TableFormat::Text => render::analysis_output::normalized_table_text(&table),
                     TableFormat::Csv => render::table_csv(&table.table),

@@ -228,14 +228,30 @@ fn a_missing_model_file_is_reported_as_missing() {
 }
 
 #[test]
-fn normalize_on_a_piecewise_model_says_what_to_do_instead() {
-    // The message used to say the exact sum "is printed instead", but nothing is printed.
-    let args = ["solve", "examples/repair_counter.rule", "--param", "c=3"];
-    let o = telescope(&[&args[..], &["--normalize"]].concat());
-    assert_eq!(o.status.code(), Some(2));
-    assert!(stdout(&o).is_empty());
-    assert!(!stderr(&o).contains("is printed instead"), "{}", stderr(&o));
-    assert!(stderr(&o).contains("without --normalize"), "{}", stderr(&o));
+fn normalize_on_a_piecewise_model_gives_the_base_term_and_the_normalised_prefactor() {
+    // M/M/3 with offered load 2: total 9·p(0) (Erlang C's denominator, Kleinrock 1975,
+    // eq. 3.39), so p(0) = 1/9 and C = p(0)·c^c/c! = (1/9)·27/6 = 1/2.
+    let o = telescope(&[
+        "solve",
+        "examples/repair_counter.rule",
+        "--param",
+        "c=3",
+        "--param",
+        "lambda=2",
+        "--param",
+        "mu=1",
+        "--normalize",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["normalization"]["base_value"]["exact"], "1/9");
+    assert_eq!(v["tail"]["prefactor_normalized"], true);
+    assert_eq!(
+        v["tail"]["prefactor"]["value"],
+        "0.500000000000000000000000000000"
+    );
 }
 
 #[test]

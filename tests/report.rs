@@ -221,22 +221,16 @@ fn every_example_report_passes_the_checks() {
         let json = solve_json(&path, &params);
         check_formulas(&name, &html, &json);
         check_plots(&name, &page);
-        if json.get("pieces").is_some() {
-            // Piecewise: the sum over the pieces.
-            if let Some(total) = json["sum"]["total"].as_str() {
-                assert_eq!(quantity(&html, "total").as_deref(), Some(total), "{name}");
-            }
-        } else {
-            for (field, key) in [
-                ("normalization", "total"),
-                ("mean", "mean"),
-                ("variance", "variance"),
-            ] {
-                let expected = json[field]["value"].as_str();
-                assert_eq!(quantity(&html, key).as_deref(), expected, "{name}: {key}");
-            }
-            assert!(quantity(&html, "total").is_some(), "{name}: a total");
+        // Single rules and piecewise models alike (the model-level analysis).
+        for (field, key) in [
+            ("normalization", "total"),
+            ("mean", "mean"),
+            ("variance", "variance"),
+        ] {
+            let expected = json[field]["value"].as_str();
+            assert_eq!(quantity(&html, key).as_deref(), expected, "{name}: {key}");
         }
+        assert!(quantity(&html, "total").is_some(), "{name}: a total");
         assert!(page.len() < 500_000, "{name}: {} bytes", page.len());
     }
 }
@@ -245,11 +239,20 @@ fn every_example_report_passes_the_checks() {
 fn without_values_the_page_has_formulas_and_says_which_params_add_numbers() {
     for (name, text) in examples() {
         let model = build_model(&text).unwrap();
-        // Piecewise models need their breakpoints; give only those.
-        let params: Vec<String> = common::breakpoint_values(&model)
-            .iter()
-            .map(|(k, v)| format!("{k}={v}"))
-            .collect();
+        // Piecewise models need their breakpoints; give only those (integer parameters).
+        let params: Vec<String> = if model.is_piecewise() {
+            demo_params(&name, &text)
+                .into_iter()
+                .filter(|v| {
+                    model
+                        .params
+                        .iter()
+                        .any(|p| p.integer && v.starts_with(&format!("{}=", p.name)))
+                })
+                .collect()
+        } else {
+            Vec::new()
+        };
         let path = format!("examples/{name}.rule");
         let page = report(&path, &params);
         let html = check_page(&name, &page);
@@ -364,4 +367,48 @@ fn mathml_snapshots() {
             .element(true);
         insta::assert_snapshot!(format!("mathml_{name}"), math);
     }
+}
+
+#[test]
+fn probabilities_on_the_page_equal_those_of_solve() {
+    let params = vec![
+        "lambda=3".to_string(),
+        "mu=1".to_string(),
+        "c=4".to_string(),
+    ];
+    let path = "examples/repair_counter.rule";
+    let events = ["k >= 10", "2 <= k <= c"];
+    let mut report_args = with_params(&["report", path, "--digits", "25", "-o", "-"], &params);
+    let mut solve_args = with_params(
+        &["solve", path, "--digits", "25", "--format", "json"],
+        &params,
+    );
+    for e in &events {
+        report_args.extend(["--prob", e]);
+        solve_args.extend(["--prob", e]);
+    }
+    let out = telescope(&report_args);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let page = String::from_utf8(out.stdout).unwrap();
+    let html = check_page("repair_counter --prob", &page);
+    let out = telescope(&solve_args);
+    let json: Value = serde_json::from_slice(&out.stdout).unwrap();
+    let tex = annotations(&html);
+    for (i, p) in json["probabilities"].as_array().unwrap().iter().enumerate() {
+        assert_eq!(
+            quantity(&html, &format!("probability-{}", i + 1)).as_deref(),
+            p["value"].as_str()
+        );
+        let latex = p["latex"].as_str().unwrap();
+        assert!(tex.iter().any(|t| t == latex), "{latex} not in {tex:?}");
+    }
+    // The commands that reproduce the page carry the events.
+    assert!(
+        page.contains("--prob &#39;k &gt;= 10&#39;"),
+        "reproduce --prob"
+    );
 }

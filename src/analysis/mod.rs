@@ -29,7 +29,7 @@ pub use hypergeometric::{HyperSeries, RisingForm};
 pub use numeric_sum::{moment_sums, Bounded, MomentSums, NumericRule, SumFailure, SumMethod};
 pub use report::{
     analyse, normalizing_base_value, Analysis, AnalysisRequest, Finiteness, Moment, Normalization,
-    NumberReport, TailCheck, TailNumbers, TailReport,
+    NumberReport, TailCheck, TailNumbers, TailReport, TotalParts,
 };
 pub use sums::{closed_sum, Theorem};
 pub use symbolic::{Atom, Expr, Term};

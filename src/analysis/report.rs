@@ -94,8 +94,8 @@ pub struct TailReport {
 #[derive(Clone, Debug)]
 pub struct Normalization {
     pub base_index: BigInt,
-    /// Σ_{k≥b} a(k) = a(b) · series.
-    pub series: HyperSeries,
+    /// Σ_{k≥b} a(k) = a(b) · series (`None` for a piecewise model, summed over its pieces).
+    pub series: Option<HyperSeries>,
     /// The series' sum in closed form and the theorem that gave it.
     pub closed_form: Option<(Expr, Theorem)>,
     pub requirements: Vec<Requirement>,
@@ -107,6 +107,20 @@ pub struct Normalization {
     pub finite_support: bool,
     /// Why no number was given although the parameters are numeric.
     pub numeric_note: Option<String>,
+    /// A piecewise model's total split at its last breakpoint (`None` for a single rule).
+    pub parts: Option<TotalParts>,
+}
+
+/// `Σ a(k)` (a(b) = 1) as the part up to the last breakpoint and the last piece's part.
+#[derive(Clone, Debug)]
+pub struct TotalParts {
+    /// Σ_{k=b..b'} a(k), exact.
+    pub finite_part: String,
+    /// Σ_{k>b'} a(k): exact or a decimal with `tail_error_bound`; `None` when it diverges or
+    /// could not be summed.
+    pub tail_part: Option<String>,
+    pub tail_exact: bool,
+    pub tail_error_bound: Option<String>,
 }
 
 #[derive(Clone, Debug)]
@@ -234,7 +248,7 @@ pub fn analyse(
     };
     let mut normalization = Normalization {
         base_index: base.clone(),
-        series: series.clone(),
+        series: Some(series.clone()),
         // A divergent series has no sum (Gauss's formula would sit on a pole of Γ).
         closed_form: closed
             .as_ref()
@@ -246,6 +260,7 @@ pub fn analyse(
         base_value: None,
         finite_support,
         numeric_note: None,
+        parts: None,
     };
     let moment_finiteness = |j: usize| -> Finiteness {
         match &total_finiteness {

@@ -36,10 +36,15 @@ pub fn build_problem(text: &str) -> Result<Problem, Diagnostic> {
     if model.is_piecewise() {
         return Err(Diagnostic::new(
             format!(
-                "this model has {} pieces; a single problem holds one rule",
+                "this model has {} piece(s) or a bounded state space; a single problem holds one open-ended rule",
                 model.pieces.len()
             ),
-            model.pieces[1].span.clone(),
+            model
+                .pieces
+                .get(1)
+                .map(|p| p.span.clone())
+                .or_else(|| model.pieces.last().and_then(|p| p.range_span.clone()))
+                .unwrap_or(0..0),
         )
         .with_help("read it with build_model and solve it piece by piece (telescope solve does)"));
     }
@@ -224,15 +229,6 @@ pub fn build_model(text: &str) -> Result<Model, Diagnostic> {
         rate_pieces(&rate_statements, &sequence, &declared, &mut discovered)?
     };
     check_consecutive(&pieces)?;
-    if let Some(last) = pieces.last() {
-        if last.last.is_some() && pieces.len() > 1 {
-            return Err(Diagnostic::new(
-                "the last piece must run to infinity (a truncated rule is not supported)",
-                last.range_span.clone().unwrap_or(last.span.clone()),
-            )
-            .with_help("write the last range open-ended, e.g. `for k > c`"));
-        }
-    }
     let boundary = match boundaries.as_slice() {
         [] => None,
         [_, second, ..] => {
@@ -350,15 +346,6 @@ fn rule_pieces(
         let range = index_range(rule.range(), index, DEFAULT_FIRST_INDEX, declared)?;
         // Without `for` the default speaks of the rule (base term a(1)), not of the equation.
         let shift = RatFunc::from_integer(if rule.range().is_some() { shift } else { 0 });
-        if let (Some((_, upper_span)), 1) = (&range.last, rules.len()) {
-            return Err(Diagnostic::new(
-                "an upper bound on the index is not supported for a single rule",
-                upper_span.clone(),
-            )
-            .with_help(
-                "a finite support follows from the rule itself, e.g. a factor (N - k + 1)",
-            ));
-        }
         pieces.push(Piece {
             ratio,
             first: &range.first + &shift,

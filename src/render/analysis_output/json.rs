@@ -117,8 +117,16 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
     out.insert("tail".into(), tail.unwrap_or(Value::Null));
     let norm = &a.normalization;
     let mut n = Map::new();
-    let (st, sl) = series_strings(&norm.series);
-    n.insert("series".into(), json!({ "text": st, "latex": sl }));
+    n.insert(
+        "series".into(),
+        match &norm.series {
+            Some(series) => {
+                let (st, sl) = series_strings(series);
+                json!({ "text": st, "latex": sl })
+            }
+            None => Value::Null,
+        },
+    );
     n.insert(
         "closed_form".into(),
         norm.closed_form
@@ -155,6 +163,18 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
                 number_fields(&mut m, number.as_ref());
                 Value::Object(m)
             }
+            None => Value::Null,
+        },
+    );
+    n.insert(
+        "parts".into(),
+        match &norm.parts {
+            Some(p) => json!({
+                "finite_part": p.finite_part,
+                "tail_part": p.tail_part,
+                "tail_exact": p.tail_exact,
+                "tail_error_bound": p.tail_error_bound,
+            }),
             None => Value::Null,
         },
     );

@@ -174,12 +174,29 @@ pub fn analysis_text(a: &Analysis) -> String {
     }
     let norm = &a.normalization;
     let b = &norm.base_index;
-    let (series_text, _) = series_strings(&norm.series);
     let a_b = text::write(&base_term(a, b));
-    out += &format!(
-        "total        Σ_{{{index}≥{b}}} {}({index}) = {a_b} · {series_text}\n",
-        a.sequence
-    );
+    match &norm.series {
+        Some(series) => {
+            let (series_text, _) = series_strings(series);
+            out += &format!(
+                "total        Σ_{{{index}≥{b}}} {}({index}) = {a_b} · {series_text}\n",
+                a.sequence
+            );
+        }
+        None => {
+            out += &format!(
+                "total        Σ_{{{index}≥{b}}} {}({index}) over the pieces\n",
+                a.sequence
+            );
+        }
+    }
+    if let Some(p) = &norm.parts {
+        let tail = p.tail_part.as_deref().unwrap_or("∞");
+        out += &format!(
+            "  parts      {} (up to the last breakpoint) + {tail} (last piece), with {a_b} = 1\n",
+            p.finite_part
+        );
+    }
     if let Some((e, theorem)) = &norm.closed_form {
         let value = match expr_node(e) {
             sum @ Node::Sum(_) => format!("({})", text::write(&sum)),
@@ -230,6 +247,17 @@ fn moment_text(name: &str, m: &Moment) -> String {
         out += &format!("  value      {}\n", number_text(v, ""));
     }
     out
+}
+
+/// `p/q` as `\frac{p}{q}`.
+fn latex_rational(q: &str) -> String {
+    match q.split_once('/') {
+        Some((n, d)) => match n.strip_prefix('-') {
+            Some(n) => format!("-\\frac{{{n}}}{{{d}}}"),
+            None => format!("\\frac{{{n}}}{{{d}}}"),
+        },
+        None => q.to_string(),
+    }
 }
 
 /// A LaTeX fragment (amsmath) with the tail law, the total and the moments.
@@ -283,8 +311,28 @@ pub fn analysis_latex(a: &Analysis) -> String {
     let norm = &a.normalization;
     let b = &norm.base_index;
     let a_b = latex::write(&base_term(a, b));
-    let (_, series) = series_strings(&norm.series);
-    let mut total = format!("  \\sum_{{{index} \\ge {b}}} {seq_k} &= {a_b}\\,{series}");
+    let mut total = match &norm.series {
+        Some(series) => format!(
+            "  \\sum_{{{index} \\ge {b}}} {seq_k} &= {a_b}\\,{}",
+            series_strings(series).1
+        ),
+        None => match (
+            &norm.value,
+            &norm.value.as_ref().and_then(|v| v.exact.clone()),
+        ) {
+            (_, Some(q)) => format!(
+                "  \\sum_{{{index} \\ge {b}}} {seq_k} &= {a_b}\\,{}",
+                latex_rational(q)
+            ),
+            (Some(v), None) => format!(
+                "  \\sum_{{{index} \\ge {b}}} {seq_k} &\\approx {a_b}\\,{}",
+                v.value
+            ),
+            (None, None) => {
+                format!("  \\sum_{{{index} \\ge {b}}} {seq_k} &= \\sum_{{\\text{{pieces}}}}")
+            }
+        },
+    };
     if let Some((e, _)) = &norm.closed_form {
         total += &format!(" = {a_b}\\,{}", wrap_sum(&expr_node(e)));
     }
@@ -299,6 +347,16 @@ pub fn analysis_latex(a: &Analysis) -> String {
                 "  {name}[{index}] &= {}",
                 latex::write(&expr_node(e))
             )),
+            // A piecewise model's moments are numbers (exact where every part is).
+            (_, None) if norm.series.is_none() && m.value.is_some() => {
+                let v = m.value.as_ref().expect("checked");
+                lines.push(match &v.exact {
+                    Some(q) if q.len() < 60 => {
+                        format!("  {name}[{index}] &= {}", latex_rational(q))
+                    }
+                    _ => format!("  {name}[{index}] &\\approx {}", v.value),
+                })
+            }
             _ => {}
         }
     }

@@ -3,11 +3,11 @@
 
 use crate::algebra::RatFunc;
 use crate::analysis::{Analysis, Finiteness, HyperSeries, Inequality, NumberReport, Requirement};
+use crate::probability::{Event, EventBound};
 
 use super::super::analysis_output::{expr_node, prefactor_node, ratfunc_node};
 use super::super::escape::escape_text;
 use super::super::mathml::{mo, Math};
-use super::super::model_output::sum_json;
 use super::super::node::Node;
 use super::super::to_node;
 use super::ReportPage;
@@ -83,7 +83,7 @@ fn value_span(quantity: &str, value: &str) -> String {
 
 pub(super) fn tail(page: &ReportPage) -> String {
     let Some(a) = &page.analysis else {
-        return "<p>The tail law of a piecewise model is not derived yet; it is the tail law of the last piece's rule (section 2).</p>\n".into();
+        return String::new();
     };
     let Some(t) = &a.tail else {
         return "<p>The support is finite: there is no tail.</p>\n".into();
@@ -270,7 +270,7 @@ fn number_facts(quantity: &str, n: &NumberReport) -> String {
 
 pub(super) fn sums(page: &ReportPage) -> String {
     let Some(a) = &page.analysis else {
-        return piecewise_sum(page);
+        return String::new();
     };
     let norm = &a.normalization;
     let k = &a.index;
@@ -288,9 +288,10 @@ pub(super) fn sums(page: &ReportPage) -> String {
         ),
         format!("\\sum_{{{k} \\ge {}}}", norm.base_index),
     );
-    let mut total = sigma
-        .then(seq_k)
-        .op("=", "=", a_b.clone().times(series_math(&norm.series)));
+    let mut total = sigma.then(seq_k);
+    if let Some(series) = &norm.series {
+        total = total.op("=", "=", a_b.clone().times(series_math(series)));
+    }
     if let Some((e, _)) = &norm.closed_form {
         let value = Math::node(&expr_node(e));
         let value = if matches!(expr_node(e), Node::Sum(_)) {
@@ -316,6 +317,26 @@ pub(super) fn sums(page: &ReportPage) -> String {
     if let Some(v) = &norm.value {
         out += &number_facts("total", v);
         out += &fact("in units of", &format!("{} = 1", a_b.element(false)));
+    }
+    if let Some(parts) = &norm.parts {
+        out += &fact(
+            "up to the last breakpoint",
+            &format!(
+                "<span class=\"value\">{}</span> exactly",
+                escape_text(&parts.finite_part)
+            ),
+        );
+        if let Some(tail) = &parts.tail_part {
+            let bound = match (&parts.tail_exact, &parts.tail_error_bound) {
+                (true, _) => " exactly".to_string(),
+                (false, Some(b)) => format!(" (error ≤ {})", escape_text(b)),
+                (false, None) => String::new(),
+            };
+            out += &fact(
+                "beyond it",
+                &format!("<span class=\"value\">{}</span>{bound}", escape_text(tail)),
+            );
+        }
     }
     if let Some(note) = &norm.numeric_note {
         out += &fact("no value", &escape_text(note));
@@ -357,58 +378,57 @@ pub(super) fn sums(page: &ReportPage) -> String {
     out
 }
 
-/// The exact sum over a piecewise model's pieces (the same fields as `solve --format json`).
-fn piecewise_sum(page: &ReportPage) -> String {
-    let Some(sum) = &page.sum else {
-        if page.missing.is_empty() {
-            return "<p>The sum over the pieces could not be formed.</p>\n".into();
+/// `P(k ≥ c)`, `P(a ≤ k ≤ b)`, `P(k = c)` as a formula (the layout of
+/// `probability_output::event_strings`).
+fn event_math(e: &Event) -> Math {
+    let bound = |b: &EventBound| Math::node(&ratfunc_node(&b.value));
+    let k = Math::node(&Node::sym(&e.index));
+    let less = |strict: bool| if strict { ("<", "<") } else { ("≤", "\\le") };
+    let greater = |strict: bool| if strict { (">", ">") } else { ("≥", "\\ge") };
+    let inner = match (&e.lower, &e.upper) {
+        (Some(lo), Some(hi)) if lo == hi => k.op("=", "=", bound(lo)),
+        (Some(lo), Some(hi)) => {
+            let (a, a_tex) = less(lo.strict);
+            let (b, b_tex) = less(hi.strict);
+            bound(lo).op(a, a_tex, k).op(b, b_tex, bound(hi))
         }
-        return "<p>The sum over the pieces needs a value for every parameter.</p>\n".into();
+        (Some(lo), None) => {
+            let (a, a_tex) = greater(lo.strict);
+            k.op(a, a_tex, bound(lo))
+        }
+        (None, Some(hi)) => {
+            let (a, a_tex) = less(hi.strict);
+            k.op(a, a_tex, bound(hi))
+        }
+        (None, None) => k,
     };
-    let json = sum_json(sum);
-    let field = |name: &str| json[name].as_str().map(str::to_string);
-    let mut out = String::from("<h3>Total</h3>\n<dl class=\"facts\">\n");
-    if let Some(total) = field("total") {
-        out += &fact("value", &value_span("total", &total));
+    Math::raw("<mi>P</mi>", "P").then(inner.parenthesised())
+}
+
+/// The `--prob` answers under the normalised law (nothing when none was asked for).
+pub(super) fn probabilities(page: &ReportPage) -> String {
+    if page.probabilities.is_empty() {
+        return String::new();
     }
-    if let Some(finite) = field("finite_part") {
-        out += &fact(
-            "up to the last breakpoint",
-            &format!("<span class=\"value\">{}</span>", escape_text(&finite)),
+    let mut out = String::from("<h3>Probabilities under the normalised law</h3>\n<table class=\"probabilities\">\n<thead><tr><th>event</th><th>value</th><th>exactly</th><th>error bound</th><th>obtained by</th></tr></thead>\n<tbody>\n");
+    for (i, p) in page.probabilities.iter().enumerate() {
+        let cells = match &p.value {
+            Some(v) => format!(
+                "<td>{}</td><td class=\"number\">{}</td><td class=\"number\">{}</td><td>{}</td>",
+                value_span(&format!("probability-{}", i + 1), &v.value),
+                escape_text(v.exact.as_deref().unwrap_or("")),
+                escape_text(&v.error_bound),
+                escape_text(&v.method)
+            ),
+            None => format!(
+                "<td colspan=\"4\">{}</td>",
+                escape_text(p.note.as_deref().unwrap_or("no value"))
+            ),
+        };
+        out += &format!(
+            "<tr><td>{}</td>{cells}</tr>\n",
+            event_math(&p.event).element(false)
         );
     }
-    if let Some(tail) = field("tail_part") {
-        out += &fact(
-            "the last piece's tail",
-            &format!("<span class=\"value\">{}</span>", escape_text(&tail)),
-        );
-    }
-    out += &fact(
-        "obtained by",
-        &escape_text(&match (field("tail").as_deref(), field("method")) {
-            (Some("exact"), _) => {
-                "exact rational sums; the last piece's tail as a geometric series or a finite sum"
-                    .to_string()
-            }
-            (_, Some(method)) => method,
-            (Some(status), None) => status.replace('_', " "),
-            (None, None) => String::new(),
-        }),
-    );
-    out += &fact(
-        "error bound",
-        &format!(
-            "<span class=\"value\">{}</span>",
-            escape_text(&field("error_bound").unwrap_or_else(|| "0 (exact)".into()))
-        ),
-    );
-    let base = page.solved.base_index();
-    let unit = if page.model.boundary.is_some() {
-        format!("{}({base}) from the boundary equation", page.model.sequence)
-    } else {
-        format!("{}({base}) = 1", page.model.sequence)
-    };
-    out += &fact("in units of", &escape_text(&unit));
-    out += "</dl>\n<p>The mean and the variance of piecewise models are not computed yet.</p>\n";
-    out
+    out + "</tbody>\n</table>\n"
 }

@@ -14,7 +14,8 @@ mod style;
 
 use crate::analysis::Analysis;
 use crate::model::Model;
-use crate::piecewise::{ModelSolution, PiecewiseSum};
+use crate::piecewise::ModelSolution;
+use crate::probability::Probability;
 use crate::table::Table;
 
 use super::escape::escape_text;
@@ -27,10 +28,10 @@ pub struct ReportPage {
     pub input: crate::session::Input,
     pub model: Model,
     pub solved: ModelSolution,
-    /// Tail, total and moments of a single rule.
+    /// Tail, total and moments (of a single rule, or of a whole piecewise model).
     pub analysis: Option<Analysis>,
-    /// The sum over the support of a piecewise model (with every parameter given).
-    pub sum: Option<PiecewiseSum>,
+    /// Answers to `--prob` events under the normalised law.
+    pub probabilities: Vec<Probability>,
     /// The evidence table, when every parameter has a value.
     pub table: Option<Table>,
     /// The tail law's leading term at some k, for plot (1).
@@ -73,7 +74,11 @@ pub fn report_html(page: &ReportPage) -> String {
         ("support", "Support", sections::support(page)),
         ("conditions", "Conditions", sections::conditions(page)),
         ("tail", "Tail law", analysis::tail(page)),
-        ("sums", "Total, mean and variance", analysis::sums(page)),
+        (
+            "sums",
+            "Total, mean and variance",
+            analysis::sums(page) + &analysis::probabilities(page),
+        ),
         ("evidence", "Evidence", evidence::evidence(page)),
         (
             "reproduce",

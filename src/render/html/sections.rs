@@ -205,20 +205,52 @@ fn support_math(solution: &Solution, index: &str) -> (Math, Option<String>) {
 }
 
 pub(super) fn support(page: &ReportPage) -> String {
-    let mut out = String::new();
-    for (i, piece) in pieces(page) {
-        out += &piece_heading(page, i);
+    if !page.model.is_piecewise() {
+        let piece = &page.solved.pieces[0];
         let (math, words) = support_math(&piece.solution, &piece.problem.index);
-        out += &math.element(true);
-        out += "\n";
+        let mut out = math.element(true) + "\n";
         if let Some(words) = words {
             out += &format!("<p>{}</p>\n", escape_text(&words));
         }
+        return out;
     }
-    if page.model.is_piecewise() {
-        out += "<p>The pieces join at the breakpoints; the support of the whole model is that of its last piece from the first piece's base term.</p>\n";
+    // A piecewise model: the pieces' ranges, and the support they make together (the last
+    // piece may end where the model says, or where its own rule vanishes).
+    let index = &page.model.index;
+    let k = || Math::node(&Node::sym(index));
+    let int = |n: &num_bigint::BigInt| Math::node(&Node::Int(n.clone()));
+    let mut out = String::from("<ul class=\"pieces\">\n");
+    for (i, piece) in pieces(page) {
+        let range = match &piece.last_index {
+            Some(last) => {
+                int(&piece.problem.first_index)
+                    .op("≤", "\\le", k())
+                    .op("≤", "\\le", int(last))
+            }
+            None => k().op("≥", "\\ge", int(&piece.problem.first_index)),
+        };
+        let (own, _) = support_math(&piece.solution, index);
+        out += &format!(
+            "<li>piece {}: {}; its rule's product is non-zero for {}</li>\n",
+            i + 1,
+            range.element(false),
+            own.element(false)
+        );
     }
-    out
+    out += "</ul>\n";
+    let first = page.solved.base_index();
+    let last_piece = page.solved.tail_piece();
+    let end = match (&last_piece.last_index, &last_piece.solution.support.last) {
+        (Some(last), _) => Some(last.clone()),
+        (None, SupportEnd::At(last)) => Some(last.clone()),
+        _ => None,
+    };
+    let whole = match end {
+        Some(last) => int(&first).op("≤", "\\le", k()).op("≤", "\\le", int(&last)),
+        None => k().op("≥", "\\ge", int(&first)),
+    };
+    out += "<p>The support of the whole model, from the first piece's base term:</p>\n";
+    out + &whole.element(true) + "\n"
 }
 
 pub(crate) fn condition_math(c: &Condition) -> Math {
