@@ -12,8 +12,11 @@ use telescope::model::build_model;
 use telescope::piecewise::solve_model;
 use telescope::probability::{parse_event, Law};
 
+/// (name, model, parameter values, event)
+type Case<'a> = (&'a str, &'a str, Vec<(&'a str, Q)>, &'a str);
+
 fn probabilities(c: &mut Criterion) {
-    let cases: [(&str, &str, Vec<(&str, Q)>, &str); 3] = [
+    let cases: [Case; 3] = [
         (
             "erlang_c_50_servers",
             "param A > 0\nparam c integer >= 1\nbirth(k) = A\ndeath(k) = k for 1 <= k <= c\ndeath(k) = c for k > c",
