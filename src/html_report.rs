@@ -134,10 +134,18 @@ fn default_rows(
     analysis: Option<&Analysis>,
 ) -> (BigInt, BigInt) {
     let first = solved.base_index();
-    let last_piece = &solved.tail_piece().solution;
-    if let SupportEnd::At(last) = &last_piece.support.last {
+    // The support ends where the last piece ends (a finite state space) or where its rule
+    // vanishes, whichever comes first.
+    let last_piece = solved.tail_piece();
+    let end = match (&last_piece.last_index, &last_piece.solution.support.last) {
+        (Some(piece_end), SupportEnd::At(zero)) => Some(piece_end.clone().min(zero.clone())),
+        (Some(piece_end), _) => Some(piece_end.clone()),
+        (None, SupportEnd::At(zero)) => Some(zero.clone()),
+        (None, _) => None,
+    };
+    if let Some(last) = end {
         let cap = &first + BigInt::from(POWER_LAW_ROWS - 1);
-        return (first, last.clone().min(cap));
+        return (first, last.min(cap));
     }
     let rows = if is_power_law(solved, analysis) {
         POWER_LAW_ROWS

@@ -231,6 +231,23 @@ fn every_example_report_passes_the_checks() {
             assert_eq!(quantity(&html, key).as_deref(), expected, "{name}: {key}");
         }
         assert!(quantity(&html, "total").is_some(), "{name}: a total");
+        // The tail law's numbers too.
+        for (field, key) in [
+            ("prefactor", "prefactor"),
+            ("power", "power"),
+            ("rate", "rate"),
+        ] {
+            if let Some(expected) = json["tail"][field]["value"].as_str() {
+                if field == "rate" && expected == "1" {
+                    continue; // r = 1 is not shown
+                }
+                assert_eq!(
+                    quantity(&html, key).as_deref(),
+                    Some(expected),
+                    "{name}: {key}"
+                );
+            }
+        }
         assert!(page.len() < 500_000, "{name}: {} bytes", page.len());
     }
 }

@@ -100,10 +100,10 @@ pub(super) fn tail(page: &ReportPage) -> String {
         out += "<p>This law holds when the support is infinite (its end depends on the parameters).</p>\n";
     }
     let numbers = t.numbers.as_ref();
-    let with_value = |symbolic: Math, value: Option<&String>| -> String {
+    let with_value = |quantity: &str, symbolic: Math, value: Option<&String>| -> String {
         let mut s = symbolic.element(false);
         if let Some(v) = value {
-            s += &format!(" = {}", value_span("", v));
+            s += &format!(" = {}", value_span(quantity, v));
         }
         s
     };
@@ -111,6 +111,7 @@ pub(super) fn tail(page: &ReportPage) -> String {
     facts += &fact(
         "C",
         &with_value(
+            "prefactor",
             Math::node(&prefactor_node(a, t)),
             numbers.map(|n| &n.prefactor),
         ),
@@ -119,6 +120,7 @@ pub(super) fn tail(page: &ReportPage) -> String {
         facts += &fact(
             "r",
             &with_value(
+                "rate",
                 Math::node(&ratfunc_node(&law.rate)),
                 numbers.map(|n| &n.rate),
             ),
@@ -127,6 +129,7 @@ pub(super) fn tail(page: &ReportPage) -> String {
     facts += &fact(
         "θ",
         &with_value(
+            "power",
             Math::node(&ratfunc_node(&law.power)),
             numbers.map(|n| &n.power),
         ),
@@ -135,6 +138,7 @@ pub(super) fn tail(page: &ReportPage) -> String {
         facts += &fact(
             "tail exponent γ = −θ",
             &with_value(
+                "tail-exponent",
                 Math::node(&ratfunc_node(&gamma)),
                 numbers.and_then(|n| n.tail_exponent.as_ref()),
             ),
@@ -144,6 +148,7 @@ pub(super) fn tail(page: &ReportPage) -> String {
         facts += &fact(
             &format!("c{}", super::super::analysis_output::subscript(n + 1)),
             &with_value(
+                &format!("correction-{}", n + 1),
                 Math::node(&ratfunc_node(c)),
                 numbers.and_then(|v| v.corrections.get(n)),
             ),
@@ -302,8 +307,16 @@ pub(super) fn sums(page: &ReportPage) -> String {
         total = total.op("=", "=", a_b.clone().times(value));
     }
     let mut out = String::from("<h3>Total</h3>\n");
-    out += &total.element(true);
-    out += "\n<dl class=\"facts\">\n";
+    if norm.series.is_some() {
+        out += &total.element(true);
+        out += "\n";
+    } else {
+        out += &format!(
+            "<p>{} over every piece of the support:</p>\n",
+            total.element(false)
+        );
+    }
+    out += "<dl class=\"facts\">\n";
     if let Some((_, theorem)) = &norm.closed_form {
         out += &fact("closed form by", &escape_text(theorem.name()));
     }
