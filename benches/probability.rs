@@ -13,7 +13,12 @@ use telescope::piecewise::solve_model;
 use telescope::probability::{parse_event, Law};
 
 /// (name, model, parameter values, event)
-type Case<'a> = (&'a str, &'a str, Vec<(&'a str, Q)>, &'a str);
+type Case = (
+    &'static str,
+    &'static str,
+    Vec<(&'static str, Q)>,
+    &'static str,
+);
 
 fn probabilities(c: &mut Criterion) {
     let cases: [Case; 3] = [

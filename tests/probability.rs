@@ -463,3 +463,23 @@ fn symbolic_breakpoints_give_each_piece_and_the_total_with_sigma() {
     let out = common::telescope(&["solve", "examples/repair_counter.rule", "--prob", "k >= c"]);
     assert_eq!(out.status.code(), Some(2));
 }
+
+#[test]
+fn far_tails_use_the_closed_form_and_agree_with_mpmath() {
+    // n(k)/n(k−1) = (k−1)/(k+s) with s = 1/(1−ρ) = 10/7 (ρ = 3/10): a(k) ∝ B(k, s+1), and
+    // Σ_{k≥K} B(k, s+1) = B(K, s) since B(k, s) − B(k+1, s) = B(k, s+1) (DLMF 5.12.1 with the
+    // Gamma recurrence), so P(k ≥ K) = Γ(K)Γ(s+1)/Γ(K+s). Values from mpmath 1.3 at 40 digits.
+    let ps = answer(
+        "param rho in (0, 1)\nn(k)/n(k-1) = (1-rho)(k-1)/(1+(1-rho)k) for k >= 2",
+        &values(&[("rho", q(3, 10))]),
+        &["k >= 10", "k >= 10^7", "k <= 10^7"],
+    );
+    let v = |i: usize| ps[i].value.as_ref().unwrap().value.clone();
+    assert_eq!(v(0), "0.0458041970933118176551956427299");
+    assert_eq!(v(1), "1.26582346730758590484614007600e-10");
+    assert_eq!(v(2), "0.999999999873417671352431216311");
+    for p in &ps[1..] {
+        let bound: f64 = p.value.as_ref().unwrap().error_bound.parse().unwrap();
+        assert!(bound < 1e-35, "{}: {bound}", p.event.text);
+    }
+}

@@ -73,6 +73,39 @@ impl Sum {
         }
     }
 
+    /// `f · self` for an inexact f with absolute error `f_error`.
+    fn times_inexact(&self, f: &Float, f_error: &Float) -> Sum {
+        let prec = self.value.prec();
+        let value = Float::with_val(prec, &self.value * f);
+        let ulp = Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
+        let error = Float::with_val(64, &self.error * Float::with_val(64, f.abs_ref()))
+            + Float::with_val(64, self.value.abs_ref()) * f_error
+            + Float::with_val(64, &self.error * f_error)
+            + Float::with_val(64, value.abs_ref()) * ulp;
+        Sum {
+            value,
+            error,
+            exact: None,
+        }
+    }
+
+    /// `self − other` (absolute errors add, plus one rounding); exact when both are.
+    pub fn minus(&self, other: &Sum) -> Sum {
+        if let (Some(a), Some(b)) = (&self.exact, &other.exact) {
+            return Sum::exact(Rational::from(a - b), self.value.prec());
+        }
+        let prec = self.value.prec();
+        let value = Float::with_val(prec, &self.value - &other.value);
+        let ulp = Float::with_val(64, Float::i_exp(1, 1 - prec as i32));
+        let error = Float::with_val(64, &self.error + &other.error)
+            + Float::with_val(64, value.abs_ref()) * ulp;
+        Sum {
+            value,
+            error,
+            exact: None,
+        }
+    }
+
     /// `self / other` with the relative errors added (plus one rounding).
     pub fn ratio(&self, other: &Sum) -> Option<Sum> {
         let prec = self.value.prec();
@@ -200,7 +233,7 @@ impl<'a> Support<'a> {
         if hi.as_ref().is_some_and(|h| *h < lo) {
             return Ok(Moments {
                 sums: [zero(), zero(), zero()],
-                method: vec!["the range lies outside the support".into()],
+                method: vec!["the range is empty or lies outside the support".into()],
                 check: None,
                 theorem: None,
             });
@@ -214,6 +247,14 @@ impl<'a> Support<'a> {
             }
             (None, None) => unreachable!("a finite support has an end"),
         };
+        // Far out in the open last piece: a(s) from the joined closed form (MPFR) instead of
+        // an exact walk of millions of steps.
+        if let Some(start) = &tail_start {
+            let far = (start - &self.base).to_u64().unwrap_or(u64::MAX) > MAX_EXACT_STEPS;
+            if far && *start == lo {
+                return self.far_tail(start);
+            }
+        }
         let (head, at_start) = self.exact_walk(&lo, &walk_to, tail_start.is_some())?;
         let terms = (&walk_to - &lo + 1u32).to_u64().unwrap_or(0);
         let Some(start) = tail_start else {
@@ -249,6 +290,50 @@ impl<'a> Support<'a> {
             };
             Some(head.plus(&tail.times(&at_start)))
         });
+        Ok(Moments {
+            sums,
+            method,
+            check: tail.check,
+            theorem: tail.theorem,
+        })
+    }
+
+    /// `Σ_{k≥s} k^j a(k)` for s far beyond the base: a(s) by the joined closed form at
+    /// `digits + 10` digits (log-Gamma in MPFR with the precision policy's guard bits; its
+    /// relative error is taken as 10^(−digits−8)), times the last piece's series from s.
+    fn far_tail(&self, start: &BigInt) -> Result<Moments, MassError> {
+        let evaluator = crate::piecewise::PiecewiseEvaluator::new(
+            self.solved,
+            &Q::from_integer(1.into()),
+            self.digits + 10,
+        )
+        .map_err(|e| {
+            MassError::Unsupported(format!("the closed form cannot be evaluated: {e:?}"))
+        })?;
+        let value = evaluator
+            .value(start)
+            .map_err(|e| {
+                MassError::Unsupported(format!(
+                    "the closed form cannot be evaluated at k = {start}: {e:?}"
+                ))
+            })?
+            .to_float(self.prec)
+            .ok_or_else(|| {
+                MassError::Unsupported(format!("a({start}) is beyond the floating-point range"))
+            })?;
+        let relative = Float::with_val(
+            64,
+            Float::i_exp(1, -(bits_for_digits(self.digits + 8) as i32)),
+        );
+        let error = Float::with_val(64, value.abs_ref()) * relative;
+        let tail = self.tail_series(start)?;
+        let sums = [0, 1, 2].map(|j| {
+            tail.sums[j]
+                .as_ref()
+                .map(|t| t.times_inexact(&value, &error))
+        });
+        let mut method = vec![format!("a({start}) from the closed form (MPFR)")];
+        method.extend(tail.method.iter().cloned());
         Ok(Moments {
             sums,
             method,

@@ -128,10 +128,7 @@ impl<'a> Law<'a> {
                 return out;
             }
         };
-        let part = match self
-            .support
-            .moments(range.first.as_ref(), range.last.as_ref())
-        {
+        let part = match self.part_of(&range, total) {
             Ok(p) => p,
             Err(e) => {
                 out.note = Some(describe(&e, "the range"));
@@ -158,6 +155,38 @@ impl<'a> Law<'a> {
         let check = worst(part.check.as_ref(), total.check.as_ref());
         out.value = Some(self.report(&p, method, check));
         out
+    }
+
+    /// Σ a(k) over the event's range; a range ending too far out for an exact walk, in an
+    /// open last piece, is summed as Σ_{k≥first} − Σ_{k>last} (the second far out, in closed
+    /// form): a subtraction, harmless because the part removed is the smaller.
+    fn part_of(&self, range: &IndexRange, total: &Moments) -> Result<Moments, MassError> {
+        let direct = self
+            .support
+            .moments(range.first.as_ref(), range.last.as_ref());
+        let (Err(MassError::Unsupported(_)), Some(last), None) =
+            (&direct, &range.last, &self.support.end)
+        else {
+            return direct;
+        };
+        let beyond = self.support.moments(Some(&(last + 1)), None)?;
+        let from = match &range.first {
+            Some(f) => self.support.moments(Some(f), None)?,
+            None => total.clone(),
+        };
+        let (Some(a), Some(b)) = (&from.sums[0], &beyond.sums[0]) else {
+            return direct;
+        };
+        let mut method = vec![format!(
+            "the sum from the first index minus the tail beyond k = {last}"
+        )];
+        method.extend(beyond.method.iter().cloned());
+        Ok(Moments {
+            sums: [Some(a.minus(b)), None, None],
+            method,
+            check: beyond.check,
+            theorem: beyond.theorem,
+        })
     }
 
     /// Mean Σk a/Σa and variance Σk² a/Σa − mean² of the normalised law.
