@@ -47,9 +47,16 @@ fn index_scale(context: &PlotContext) -> Scale {
     }
 }
 
-fn mark_breakpoints(mut panel: Panel, context: &PlotContext) -> Panel {
+/// Vertical lines at the breakpoints, labelled when `labelled` (plot 1; plot 2 repeats the
+/// lines without words, which its legend would cover).
+fn mark_breakpoints(mut panel: Panel, context: &PlotContext, labelled: bool) -> Panel {
     for b in &context.breakpoints {
-        panel = panel.vertical(k_number(b), &format!("{} = {b}", text_name(&context.index)));
+        let label = if labelled {
+            format!("{} = {b}", text_name(&context.index))
+        } else {
+            String::new()
+        };
+        panel = panel.vertical(k_number(b), &label);
     }
     panel
 }
@@ -82,7 +89,7 @@ pub fn values_panel(table: &Table, context: &PlotContext) -> Panel {
     if let Some(law) = &context.tail_law {
         panel = panel.series(Series::dashed(&law.label, law.points.clone()));
     }
-    mark_breakpoints(panel, context)
+    mark_breakpoints(panel, context, true)
 }
 
 /// Plot (2): |direct/closed − 1| at the checked rows, with the tolerance 10^−digits. Rows that
@@ -140,7 +147,7 @@ pub fn differences_panel(table: &Table, context: &PlotContext) -> Panel {
             on_floor,
         ));
     }
-    mark_breakpoints(panel, context)
+    mark_breakpoints(panel, context, false)
 }
 
 /// Plot (1) alone (`table --format svg`).
