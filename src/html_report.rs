@@ -1,7 +1,8 @@
 //! `telescope report`: everything the HTML page shows, computed here and handed to
-//! `render::html` for layout — the solution, the analysis (or a piecewise model's sum), the
-//! evidence table with its plot points, and the commands that reproduce the page — and the
-//! file written atomically (a temporary file in the same folder, then a rename).
+//! `render::html` for layout — the solution, the analysis (the model-level one for piecewise
+//! models), the `--prob` answers, the evidence table with its plot points, and the commands
+//! that reproduce the page — and the file written atomically (a temporary file in the same
+//! folder, then a rename).
 
 use std::io::Write;
 use std::path::{Path, PathBuf};

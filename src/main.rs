@@ -262,13 +262,18 @@ fn run(cli: Cli) -> Result<String, Error> {
             let text = session::read_input(&input)?;
             let page = html_report::build_report(&text, &request)?;
             let html = render::html::report_html(&page);
-            match output.as_deref() {
-                Some("-") => Ok(html),
-                Some(path) => html_report::write_atomically(std::path::Path::new(path), &html)
-                    .map(|()| String::new()),
-                None => html_report::write_atomically(&html_report::default_output(&input), &html)
-                    .map(|()| String::new()),
-            }
+            let path = match output.as_deref() {
+                Some("-") => return Ok(html),
+                Some(path) => std::path::PathBuf::from(path),
+                None => html_report::default_output(&input),
+            };
+            html_report::write_atomically(&path, &html)?;
+            eprintln!(
+                "wrote {} ({} kB)",
+                path.display(),
+                html.len().div_ceil(1000)
+            );
+            Ok(String::new())
         }
         Command::Table {
             input,
