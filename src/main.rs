@@ -30,7 +30,7 @@ enum Command {
         /// A rule in quotes, a model file, or - for standard input.
         input: String,
         /// A parameter value, exact: NAME=3/10 or NAME=0.3 (repeatable).
-        #[arg(long = "param", value_name = "NAME=VALUE")]
+        #[arg(long = "param", value_name = "NAME=VALUE", allow_hyphen_values = true)]
         params: Vec<String>,
         #[arg(long, value_enum, default_value_t = SolveFormat::Text)]
         format: SolveFormat,
@@ -59,15 +59,15 @@ enum Command {
         /// A rule in quotes, a model file, or - for standard input.
         input: String,
         /// The rows, A..B.
-        #[arg(long = "k", value_name = "A..B")]
+        #[arg(long = "k", value_name = "A..B", allow_hyphen_values = true)]
         k: String,
-        #[arg(long = "param", value_name = "NAME=VALUE")]
+        #[arg(long = "param", value_name = "NAME=VALUE", allow_hyphen_values = true)]
         params: Vec<String>,
         /// Significant digits of every printed value.
         #[arg(long, default_value_t = 30)]
         digits: u32,
         /// The base term's value a(b) (default: the model's boundary equation, else 1).
-        #[arg(long, value_name = "VALUE")]
+        #[arg(long, value_name = "VALUE", allow_hyphen_values = true)]
         base: Option<String>,
         /// Check the closed form on every row, not a log-spaced sample.
         #[arg(long)]
@@ -107,10 +107,10 @@ enum Command {
         /// The claimed a(k), e.g. "n(1) * (7/2) * Beta(k, 7/2)".
         #[arg(long, value_name = "EXPR", allow_hyphen_values = true)]
         claim: String,
-        #[arg(long = "param", value_name = "NAME=VALUE")]
+        #[arg(long = "param", value_name = "NAME=VALUE", allow_hyphen_values = true)]
         params: Vec<String>,
         /// The base term's value a(b) (default 1).
-        #[arg(long, value_name = "VALUE")]
+        #[arg(long, value_name = "VALUE", allow_hyphen_values = true)]
         base: Option<String>,
         /// Significant digits of the numeric comparison.
         #[arg(long, default_value_t = telescope::check::DEFAULT_DIGITS)]

@@ -468,3 +468,22 @@ fn a_power_law_last_piece_is_summed_by_the_analysis() {
     assert_eq!(n["value"], "2.12500000000000000000000000000");
     assert!(n["method"].as_str().unwrap().contains("Gauss"));
 }
+
+#[test]
+fn a_bare_ratio_takes_a_sequence_name_its_parameters_leave_free() {
+    // Issue 14: `a` without an index argument is a parameter of a bare ratio.
+    let m = model("z (k + a)(k + b)/((k + c)(k + 1)) for k >= 1");
+    assert_eq!(m.sequence, "u");
+    assert!(m.params.iter().any(|p| p.name == "a"));
+    // A declared parameter counts as used too, wherever the declaration stands.
+    let m = model("(k + 1)/(k + 2)\nparam a > 0\nparam u > 0");
+    assert_eq!(m.sequence, "v");
+    // The sequence written with its index inside its own ratio is still refused.
+    let err = build_model("(k + 1)/(k + a(k))").unwrap_err();
+    assert!(
+        err.message.contains("cannot appear inside its own ratio"),
+        "{}",
+        err.message
+    );
+    assert_eq!(model("(k + 1)/(k + 2)").sequence, "a");
+}

@@ -24,7 +24,7 @@ pub mod sums;
 pub mod symbolic;
 pub mod tail;
 
-pub use conditions::{Inequality, Requirement, Verdict};
+pub use conditions::{Inequality, Region, Requirement, Verdict};
 pub use hypergeometric::{HyperSeries, RisingForm};
 pub use numeric_sum::{moment_sums, Bounded, MomentSums, NumericRule, SumFailure, SumMethod};
 pub use report::{

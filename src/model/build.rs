@@ -26,6 +26,37 @@ pub const DEFAULT_FIRST_INDEX: i64 = 2;
 /// Sequence name used for a bare ratio expression.
 pub const DEFAULT_SEQUENCE: &str = "a";
 
+/// Names tried, in order, for the sequence of a bare ratio when `a` is taken.
+const SPARE_SEQUENCE_NAMES: [&str; 8] = ["u", "v", "w", "y", "f", "g", "h", "q"];
+
+/// The sequence name of a bare ratio: [`DEFAULT_SEQUENCE`] unless the expression uses it as a
+/// plain name (a parameter: in a bare ratio no sequence term is written, so `a` without an
+/// index argument is not one) or a `param` declares it; then the first spare name not used.
+fn bare_sequence_name(parsed: &syntax::Model, expr: &Expr, index: &str) -> String {
+    let mut used: Vec<String> = vec![index.to_string()];
+    expr.walk(&mut |node| {
+        if let ExprKind::Ident(name) = &node.kind {
+            used.push(name.clone());
+        }
+    });
+    for statement in &parsed.statements {
+        if let StatementKind::Param(decl) = &statement.kind {
+            used.extend(decl.names.iter().map(|(name, _)| name.clone()));
+        }
+    }
+    let free = |name: &str| !used.iter().any(|u| u == name);
+    std::iter::once(DEFAULT_SEQUENCE)
+        .chain(SPARE_SEQUENCE_NAMES)
+        .find(|name| free(name))
+        .map(str::to_string)
+        .unwrap_or_else(|| {
+            (1u32..)
+                .map(|i| format!("{DEFAULT_SEQUENCE}{i}"))
+                .find(|name| free(name))
+                .expect("a free name")
+        })
+}
+
 /// Sequence name of a model given only by rates (π in the texts; `pi` is the constant).
 pub const RATES_SEQUENCE: &str = "p";
 
@@ -144,7 +175,7 @@ pub fn build_model(text: &str) -> Result<Model, Diagnostic> {
                     .map(|r| r.var.clone())
                     .unwrap_or_else(|| "k".to_string());
                 rules.push(RuleStatement::Ratio {
-                    sequence: DEFAULT_SEQUENCE.to_string(),
+                    sequence: bare_sequence_name(&parsed, expr, &index),
                     index,
                     rhs: expr,
                     range: range.as_ref(),

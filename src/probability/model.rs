@@ -97,6 +97,11 @@ pub fn analyse_model(
         finite_support,
         numeric_note,
         parts,
+        // Where the total converges: the open last piece's region (issue 14's `finite_for`).
+        finite_for: piece
+            .as_ref()
+            .filter(|_| !finite_support)
+            .and_then(|p| p.normalization.finite_for.clone()),
     };
     let moments = law.as_ref().map(|l| l.moments());
     let moment = |j: usize| -> Moment {
@@ -131,11 +136,19 @@ pub fn analyse_model(
             }
             _ => (from_piece.unwrap_or(Finiteness::Finite), None),
         };
+        let finite_for = piece.as_ref().filter(|_| !finite_support).and_then(|p| {
+            if j == 1 {
+                p.mean.finite_for.clone()
+            } else {
+                p.variance.finite_for.clone()
+            }
+        });
         Moment {
             closed_form: None,
             requirements: reqs,
             finiteness,
             value,
+            finite_for,
         }
     };
     let (mean, variance) = (moment(1), moment(2));

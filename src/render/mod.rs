@@ -13,6 +13,7 @@ pub mod mathml;
 pub mod model_output;
 pub mod node;
 pub mod probability_output;
+pub mod region;
 pub mod report;
 pub mod solve_output;
 pub mod symbolic_output;

@@ -2,6 +2,7 @@
 //! with their closed forms, conditions, values, methods and error bounds.
 
 use crate::algebra::RatFunc;
+use crate::analysis::Region;
 use crate::analysis::{Analysis, Finiteness, HyperSeries, Inequality, NumberReport, Requirement};
 use crate::probability::{Event, EventBound};
 
@@ -9,6 +10,7 @@ use super::super::analysis_output::{expr_node, prefactor_node, ratfunc_node};
 use super::super::escape::escape_text;
 use super::super::mathml::{mo, Math};
 use super::super::node::Node;
+use super::super::region::{region_latex_parts, region_words};
 use super::super::to_node;
 use super::ReportPage;
 
@@ -216,6 +218,24 @@ fn inequality_math(i: &Inequality) -> Math {
     }
 }
 
+/// Where a condition holds and fails, as formulas (the region's text in MathML, its LaTeX as
+/// the annotation).
+pub(crate) fn region_html(region: &Region) -> String {
+    let (holds, fails, note) = region_words(region);
+    let (holds_tex, fails_tex, _) = region_latex_parts(region);
+    let math = |text: &str, tex: &str| {
+        Math::raw(format!("<mtext>{}</mtext>", escape_text(text)), tex).element(false)
+    };
+    let mut out = format!("holds for {}", math(&holds, &holds_tex));
+    if !fails.is_empty() {
+        out += &format!(", fails for {}", math(&fails, &fails_tex));
+    }
+    if let Some(n) = note {
+        out += &format!(" ({})", escape_text(&n));
+    }
+    out
+}
+
 fn requirements(list: &[Requirement]) -> String {
     if list.is_empty() {
         return String::new();
@@ -227,8 +247,13 @@ fn requirements(list: &[Requirement]) -> String {
             .filter(|w| !w.is_empty())
             .map(|w| format!(": {w}"))
             .unwrap_or_default();
+        let region = r
+            .region
+            .as_ref()
+            .map(|g| format!("; {}", region_html(g)))
+            .unwrap_or_default();
         out += &format!(
-            "<li>{} — {}; <span class=\"status-{word}\">{word}{}</span></li>\n",
+            "<li>{} — {}; <span class=\"status-{word}\">{word}{}</span>{region}</li>\n",
             inequality_math(&r.inequality).element(false),
             escape_text(&r.purpose),
             escape_text(&why)
@@ -327,6 +352,9 @@ pub(super) fn sums(page: &ReportPage) -> String {
         "the total is",
         &escape_text(&finiteness_words(&norm.finiteness)),
     );
+    if let Some(region) = &norm.finite_for {
+        out += &fact("finite", &region_html(region));
+    }
     if let Some(v) = &norm.value {
         out += &number_facts("total", v);
         out += &fact("in units of", &format!("{} = 1", a_b.element(false)));
@@ -382,6 +410,9 @@ pub(super) fn sums(page: &ReportPage) -> String {
             &format!("the {quantity} is"),
             &escape_text(&finiteness_words(&m.finiteness)),
         );
+        if let Some(region) = &m.finite_for {
+            out += &fact("finite", &region_html(region));
+        }
         if let Some(v) = &m.value {
             out += &number_facts(quantity, v);
         }

@@ -287,8 +287,20 @@ fn condition_rows(problem: &Problem, conditions: &[&Condition]) -> String {
         if let Status::NotDecided(note) = &c.status {
             status = format!("{status}: {note}");
         }
+        let region = c
+            .holds_for
+            .as_ref()
+            .map(|split| {
+                format!(
+                    "; {}",
+                    super::analysis::region_html(&crate::analysis::Region::Intervals(
+                        split.clone()
+                    ))
+                )
+            })
+            .unwrap_or_default();
         out += &format!(
-            "<tr><td>{}</td><td>{}</td><td class=\"status-{word}\">{}</td></tr>\n",
+            "<tr><td>{}</td><td>{}</td><td class=\"status-{word}\">{}{region}</td></tr>\n",
             condition_math(c).element(false),
             escape_text(&c.reason),
             escape_text(&status)
