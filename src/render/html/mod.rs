@@ -95,7 +95,7 @@ pub fn report_html(page: &ReportPage) -> String {
         body += &section(number + 1, id, heading, content);
     }
     body += &format!(
-        "<footer><p>Written by telescope {}. Formulas are MathML; each &lt;math&gt; element carries its LaTeX source as an annotation (in the page source). No script, nothing fetched from a network.</p></footer>\n",
+        "<footer><p>Written by telescope {}. Formulas are MathML; each carries its LaTeX source as an annotation (in the page source). No script, nothing fetched from a network.</p></footer>\n",
         escape_text(&page.version)
     );
     format!(
