@@ -188,22 +188,27 @@ fn run(cli: Cli) -> Result<String, Error> {
             if model.is_piecewise()
                 && telescope::piecewise::symbolic::has_symbolic_breakpoints(&model, &values)
             {
-                if normalize || !prob.is_empty() {
+                if normalize {
                     return Err(Error::Usage(
-                        "--normalize and --prob need the breakpoints' values (--param c=…); without them solve gives the symbolic forms".into(),
+                        "--normalize needs the breakpoints' values (--param c=…); without them solve gives the symbolic forms".into(),
                     ));
                 }
+                let events = session::parse_events(&model, &prob)?;
                 let symbolic = telescope::piecewise::symbolic::solve_symbolic(&model, &values)
                     .map_err(|diagnostic| Error::Input {
                         input: input.clone(),
                         diagnostic,
                     })?;
                 return Ok(match format {
-                    SolveFormat::Text => render::symbolic_output::symbolic_text(&model, &symbolic),
-                    SolveFormat::Latex => render::symbolic_output::symbolic_latex(&symbolic),
-                    SolveFormat::Json => {
-                        pretty(&render::symbolic_output::symbolic_json(&model, &symbolic))
+                    SolveFormat::Text => {
+                        render::symbolic_output::symbolic_text(&model, &symbolic, &events)
                     }
+                    SolveFormat::Latex => {
+                        render::symbolic_output::symbolic_latex(&symbolic, &events)
+                    }
+                    SolveFormat::Json => pretty(&render::symbolic_output::symbolic_json(
+                        &model, &symbolic, &events,
+                    )),
                 });
             }
             let solved = session::run_solve_model(&input, &model, &values)?;

@@ -459,8 +459,30 @@ fn symbolic_breakpoints_give_each_piece_and_the_total_with_sigma() {
     ] {
         assert!(text.contains(line), "missing {line}:\n{text}");
     }
-    // --prob needs the breakpoint's value.
-    let out = common::telescope(&["solve", "examples/repair_counter.rule", "--prob", "k >= c"]);
+    // Events on a breakpoint have symbolic probabilities: Erlang C's P(wait) and, for the
+    // loss system, Erlang's B formula (A^c/c!)/Σ_{j≤c} A^j/j! (Erlang 1917) exactly.
+    let out = common::telescope(&[
+        "solve",
+        "examples/repair_counter.rule",
+        "--prob",
+        "k >= c",
+        "--prob",
+        "k >= 2",
+    ]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("P(k ≥ c) = ((λ/μ)^c/c! + (λ/μ)^c/c!·λ/(c·μ − λ))/(Σ_{j=0}^{c} (λ/μ)^j/j! + (λ/μ)^c/c!·λ/(c·μ − λ))"), "{text}");
+    assert!(
+        text.contains("P(k ≥ 2): needs the breakpoints' values"),
+        "{text}"
+    );
+    let out = common::telescope(&["solve", "examples/parking_garage.rule", "--prob", "k = c"]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        text.contains("P(k = c) = ((λ/μ)^c/c!)/(Σ_{j=0}^{c} (λ/μ)^j/j!)"),
+        "{text}"
+    );
+    // --normalize needs numbers.
+    let out = common::telescope(&["solve", "examples/repair_counter.rule", "--normalize"]);
     assert_eq!(out.status.code(), Some(2));
 }
 
@@ -482,4 +504,38 @@ fn far_tails_use_the_closed_form_and_agree_with_mpmath() {
         let bound: f64 = p.value.as_ref().unwrap().error_bound.parse().unwrap();
         assert!(bound < 1e-35, "{}: {bound}", p.event.text);
     }
+}
+
+#[test]
+fn closed_forms_of_probabilities_with_symbolic_parameters() {
+    use telescope::render::analysis_output::expr_node;
+    let closed = |model: &str, event: &str| -> Option<String> {
+        let model = build_model(model).unwrap();
+        let solved = solve_model(&model, &BTreeMap::new()).unwrap();
+        let e = parse_event(event, &model.index, &model.params).unwrap();
+        let ps = telescope::probability::probabilities(&solved, &[e], 30);
+        ps[0]
+            .closed_form
+            .as_ref()
+            .map(|e| telescope::render::text::write(&expr_node(e)))
+    };
+    // M/M/1: π(k) = (1 − ρ)ρ^k, so P(k ≥ K) = ρ^K and P(k ≤ K) = 1 − ρ^(K+1) (geometric law,
+    // common practice).
+    let mm1 = "param rho in (0, 1)\nparam K integer >= 1\nbirth(k) = rho ; death(k) = 1";
+    assert_eq!(closed(mm1, "k >= K").as_deref(), Some("ρ^K"));
+    assert_eq!(closed(mm1, "k <= K").as_deref(), Some("1 − ρ^(K + 1)"));
+    // Yule–Simon with s = 5/2 (a(k) ∝ B(k, s+1), Simon 1955): P(k ≥ 2) = Γ(2)Γ(s+1)/Γ(2+s)
+    // = 1/(s+1) = 2/7 by the telescoping of B(k, s) above.
+    assert_eq!(
+        closed("a(k)/a(k-1) = (k-1)/(k+5/2) for k >= 2", "k >= 2").as_deref(),
+        Some("2/7")
+    );
+    // Partial sums of a binomial law have no closed form (a 2F1 away from 1): none is claimed.
+    assert_eq!(
+        closed(
+            "param N integer >= 1\nparam p in (0, 1)\na(k)/a(k-1) = (N-k+1)/k * p/(1-p) for k >= 1",
+            "k >= 2"
+        ),
+        None
+    );
 }

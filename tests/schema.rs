@@ -84,7 +84,7 @@ fn every_example_validates_against_the_solve_table_and_check_schemas() {
         let prob = strings(&["--prob", "k >= 2", "--prob", "1 <= k <= 3"]);
         let runs: Vec<Vec<String>> = vec![
             // No values at all: piecewise models print their symbolic forms.
-            strings(&["solve", &path, "--format", "json"]),
+            strings(&["solve", &path, "--format", "json", "--prob", "k >= 1"]),
             [
                 strings(&["solve", &path, "--format", "json"]),
                 breakpoints.clone(),

@@ -70,7 +70,7 @@ pub fn has_symbolic_breakpoints(model: &Model, values: &BTreeMap<String, Q>) -> 
 }
 
 /// `R(s + j)` as a rule in j.
-fn shifted_ratio(ratio: &Ratio, s: &RatFunc) -> Ratio {
+pub fn shifted_ratio(ratio: &Ratio, s: &RatFunc) -> Ratio {
     Ratio {
         constant: ratio.constant.clone(),
         factors: ratio
@@ -331,6 +331,65 @@ mod tests {
                     / rug::Float::with_val(64, &exact.value);
                 assert!(diff < 1e-28, "c = {c}: {got} against {}", exact.value);
             }
+        }
+    }
+}
+
+/// One term of a probability's numerator over a symbolic model (each in units of a(b)).
+#[derive(Clone, Debug, PartialEq)]
+pub enum NumeratorTerm {
+    /// a(s_i)/a(b): the term where piece i starts from (i ≥ 1).
+    Join(usize),
+    /// The total's part of piece i, with its join.
+    Part(usize),
+    /// a(K)/a(b) for the last state K of a bounded last piece.
+    End,
+}
+
+impl SymbolicModel {
+    /// The numerator of P(event) = numerator / total when the event's bounds fall on the
+    /// pieces' edges (k ≥ c, k > c, k = c at a breakpoint c, k = K at the last state);
+    /// `None` otherwise (the probability then needs values).
+    pub fn event_terms(&self, event: &crate::probability::Event) -> Option<Vec<NumeratorTerm>> {
+        let one = RatFunc::one();
+        let lower = event.lower.as_ref().map(|l| {
+            if l.strict {
+                &l.value + &one
+            } else {
+                l.value.clone()
+            }
+        });
+        let upper = event.upper.as_ref().map(|u| {
+            if u.strict {
+                &u.value - &one
+            } else {
+                u.value.clone()
+            }
+        });
+        let n = self.pieces.len();
+        match (&lower, &upper) {
+            (Some(l), None) => {
+                for i in 1..n {
+                    let p = &self.pieces[i];
+                    if *l == p.first {
+                        return Some((i..n).map(NumeratorTerm::Part).collect());
+                    }
+                    if *l == p.shift {
+                        let mut terms = vec![NumeratorTerm::Join(i)];
+                        terms.extend((i..n).map(NumeratorTerm::Part));
+                        return Some(terms);
+                    }
+                }
+                None
+            }
+            (Some(l), Some(u)) if l == u => {
+                if let Some(i) = (1..n).find(|&i| self.pieces[i].shift == *l) {
+                    return Some(vec![NumeratorTerm::Join(i)]);
+                }
+                let last = self.pieces.last()?.last.as_ref()?;
+                (last == l).then(|| vec![NumeratorTerm::End])
+            }
+            _ => None,
         }
     }
 }

@@ -25,10 +25,12 @@
 //! assert_eq!(p.value.unwrap().exact.as_deref(), Some("1/8"));
 //! ```
 
+mod closed;
 mod mass;
 mod model;
 mod spec;
 
+pub use closed::closed_probability;
 pub use mass::{MassError, Moments, Sum, Support, MAX_EXACT_STEPS};
 pub use model::{analyse_model, join_factor, normalized_piecewise_table};
 pub use spec::{parse_event, Event, EventBound, IndexRange};
@@ -62,6 +64,9 @@ pub struct Probability {
     /// `None` with a `note` saying why (a missing value, a divergent total, a range too long).
     pub value: Option<Value>,
     pub note: Option<String>,
+    /// The probability as a formula in the parameters (single open-ended rules whose total and
+    /// tails have closed forms), valid where the total converges and the bounds are integers.
+    pub closed_form: Option<crate::analysis::Expr>,
 }
 
 /// Mean and variance of the normalised law, each `None` with a reason when infinite or not
@@ -112,6 +117,7 @@ impl<'a> Law<'a> {
             range: None,
             value: None,
             note: None,
+            closed_form: None,
         };
         let range = match event.resolve(&self.support.solved.values) {
             Ok(r) => r,
@@ -255,23 +261,27 @@ impl<'a> Law<'a> {
     }
 
     fn report(&self, s: &Sum, method: String, check: Option<&Float>) -> Value {
-        let digits = self.support.digits;
-        match &s.exact {
-            Some(q) => Value {
-                value: decimal::rational_to_decimal(q, digits),
-                exact: Some(q.to_string()),
-                error_bound: "0".into(),
-                method,
-                check_rel_diff: check.map(decimal::short),
-            },
-            None => Value {
-                value: decimal::float_to_decimal(&s.value, digits),
-                exact: None,
-                error_bound: decimal::short(&s.error),
-                method,
-                check_rel_diff: check.map(decimal::short),
-            },
-        }
+        value_of(s, method, check, self.support.digits)
+    }
+}
+
+/// A sum as reported: exact rational or decimal with its bound.
+pub(crate) fn value_of(s: &Sum, method: String, check: Option<&Float>, digits: u32) -> Value {
+    match &s.exact {
+        Some(q) => Value {
+            value: decimal::rational_to_decimal(q, digits),
+            exact: Some(q.to_string()),
+            error_bound: "0".into(),
+            method,
+            check_rel_diff: check.map(decimal::short),
+        },
+        None => Value {
+            value: decimal::float_to_decimal(&s.value, digits),
+            exact: None,
+            error_bound: decimal::short(&s.error),
+            method,
+            check_rel_diff: check.map(decimal::short),
+        },
     }
 }
 
@@ -313,9 +323,73 @@ pub fn probabilities(solved: &ModelSolution, events: &[Event], digits: u32) -> V
                 range: None,
                 value: None,
                 note: Some(note.clone()),
+                closed_form: closed_form(solved, e),
             })
             .collect();
     }
     let law = Law::new(solved, digits);
-    events.iter().map(|e| law.probability(e)).collect()
+    events
+        .iter()
+        .map(|e| {
+            let mut p = law.probability(e);
+            p.closed_form = closed_form(solved, e);
+            check_closed_form(&mut p, &solved.values, digits);
+            p
+        })
+        .collect()
+}
+
+/// The closed form of an event's probability for a single open-ended rule.
+fn closed_form(solved: &ModelSolution, event: &Event) -> Option<crate::analysis::Expr> {
+    let [piece] = solved.pieces.as_slice() else {
+        return None;
+    };
+    if piece.last_index.is_some() {
+        return None;
+    }
+    closed_probability(&piece.problem, &piece.solution, event)
+}
+
+/// The closed form evaluated at the values against the summed value: its relative difference
+/// joins `check_rel_diff` (a closed form that disagrees is dropped: it would be wrong there).
+fn check_closed_form(
+    p: &mut Probability,
+    values: &std::collections::BTreeMap<String, crate::algebra::Q>,
+    digits: u32,
+) {
+    let (Some(e), Some(v)) = (&p.closed_form, &mut p.value) else {
+        return;
+    };
+    let prec = crate::numeric::bits_for_digits(digits + 10) + crate::numeric::GUARD_BITS;
+    let Some((closed, _)) = e.to_float(values, prec) else {
+        return;
+    };
+    // The exact rational when there is one, else the printed decimal (then the check can
+    // show no less than its rounding).
+    let summed = match v
+        .exact
+        .as_ref()
+        .and_then(|q| q.parse::<rug::Rational>().ok())
+    {
+        Some(q) => Float::with_val(prec, &q),
+        None => match Float::parse(&v.value) {
+            Ok(f) => Float::with_val(prec, f),
+            Err(_) => return,
+        },
+    };
+    let scale = Float::with_val(64, summed.abs_ref()).max(&Float::with_val(64, 1e-300));
+    let diff = Float::with_val(64, &closed - &summed).abs() / scale;
+    let tolerance = Float::with_val(
+        64,
+        rug::ops::Pow::pow(Float::with_val(64, 10), 3 - digits as i32),
+    );
+    if diff > tolerance {
+        p.closed_form = None;
+        return;
+    }
+    let shown = decimal::short(&diff);
+    v.check_rel_diff = Some(match &v.check_rel_diff {
+        Some(c) if c.parse::<f64>().unwrap_or(0.0) > diff.to_f64() => c.clone(),
+        _ => shown,
+    });
 }

@@ -97,11 +97,11 @@ pub fn analyse_model(
         finite_support,
         numeric_note,
         parts,
-        // Where the total converges: the open last piece's region (issue 14's `finite_for`).
-        finite_for: piece
-            .as_ref()
-            .filter(|_| !finite_support)
-            .and_then(|p| p.normalization.finite_for.clone()),
+        // Where the ranges leave the total open, the open last piece says where it is finite.
+        finite_for: match (&piece, &finiteness) {
+            (Some(p), Finiteness::Undecided) => p.normalization.finite_for.clone(),
+            _ => None,
+        },
     };
     let moments = law.as_ref().map(|l| l.moments());
     let moment = |j: usize| -> Moment {
@@ -136,13 +136,11 @@ pub fn analyse_model(
             }
             _ => (from_piece.unwrap_or(Finiteness::Finite), None),
         };
-        let finite_for = piece.as_ref().filter(|_| !finite_support).and_then(|p| {
-            if j == 1 {
-                p.mean.finite_for.clone()
-            } else {
-                p.variance.finite_for.clone()
-            }
-        });
+        let finite_for = match (&piece, &finiteness) {
+            (Some(p), Finiteness::Undecided) if j == 1 => p.mean.finite_for.clone(),
+            (Some(p), Finiteness::Undecided) => p.variance.finite_for.clone(),
+            _ => None,
+        };
         Moment {
             closed_form: None,
             requirements: reqs,
@@ -306,22 +304,7 @@ pub fn normalized_piecewise_table(
 }
 
 fn to_report(s: &Sum, method: String, check: Option<&Float>, digits: u32) -> NumberReport {
-    match &s.exact {
-        Some(q) => NumberReport {
-            value: decimal::rational_to_decimal(q, digits),
-            exact: Some(q.to_string()),
-            error_bound: "0".into(),
-            method,
-            check: check.map(decimal::short),
-        },
-        None => NumberReport {
-            value: decimal::float_to_decimal(&s.value, digits),
-            exact: None,
-            error_bound: decimal::short(&s.error),
-            method,
-            check: check.map(decimal::short),
-        },
-    }
+    value_report(&super::value_of(s, method, check, digits))
 }
 
 fn value_report(v: &Value) -> NumberReport {

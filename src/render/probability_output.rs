@@ -5,7 +5,7 @@ use serde_json::{json, Value};
 
 use crate::probability::{Event, EventBound, Probability};
 
-use super::analysis_output::ratfunc_node;
+use super::analysis_output::{expr_node, ratfunc_node};
 use super::{greek, latex, text};
 
 /// `P(k ≥ c)`, `P(2 ≤ k ≤ N)`, `P(k = c)` in text and LaTeX.
@@ -69,6 +69,10 @@ pub fn probabilities_json(ps: &[Probability]) -> Value {
                     "method": v.map(|v| v.method.clone()),
                     "check_rel_diff": v.and_then(|v| v.check_rel_diff.clone()),
                     "note": p.note,
+                    "closed_form": p.closed_form.as_ref().map(|e| {
+                        let node = expr_node(e);
+                        json!({ "text": text::write(&node), "latex": latex::write(&node) })
+                    }),
                 })
             })
             .collect(),
@@ -83,6 +87,9 @@ pub fn probabilities_text(ps: &[Probability]) -> String {
     let mut out = String::from("\nProbabilities (under the normalised law)\n");
     for p in ps {
         let (t, _) = event_strings(&p.event);
+        if let Some(e) = &p.closed_form {
+            out += &format!("  {t} = {}\n", text::write(&expr_node(e)));
+        }
         match (&p.value, &p.note) {
             (Some(v), _) => {
                 out += &format!("  {t} = {}", v.value);
@@ -119,20 +126,29 @@ pub fn probabilities_latex(ps: &[Probability]) -> String {
     let lines: Vec<String> = ps
         .iter()
         .map(|p| {
-            let (_, l) = event_strings(&p.event);
-            match &p.value {
+            let (_, event) = event_strings(&p.event);
+            // With a closed form, the number follows on a second aligned line.
+            let (first, lhs) = match &p.closed_form {
+                Some(e) => (
+                    format!("{event} &= {} \\\\\n  ", latex::write(&expr_node(e))),
+                    String::new(),
+                ),
+                None => (String::new(), event),
+            };
+            let number = match &p.value {
                 Some(v) => match &v.exact {
                     Some(q) if q.len() < 60 => {
                         let exact = match q.split_once('/') {
                             Some((n, d)) => format!(r"\frac{{{n}}}{{{d}}}"),
                             None => q.clone(),
                         };
-                        format!("{l} &= {exact} \\approx {}", v.value)
+                        format!("{lhs} &= {exact} \\approx {}", v.value)
                     }
-                    _ => format!("{l} &\\approx {}", v.value),
+                    _ => format!("{lhs} &\\approx {}", v.value),
                 },
-                None => format!("{l} &\\quad \\text{{not computed}}"),
-            }
+                None => format!("{lhs} &\\quad \\text{{not computed}}"),
+            };
+            first + &number
         })
         .collect();
     out += &lines.join(" \\\\\n");

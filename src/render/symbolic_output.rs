@@ -5,11 +5,13 @@
 use serde_json::{json, Value};
 
 use crate::model::Model;
-use crate::piecewise::symbolic::{SymbolicModel, TotalPart};
+use crate::piecewise::symbolic::{NumeratorTerm, SymbolicModel, TotalPart};
+use crate::probability::Event;
 
 use super::analysis_output::{expr_node, ratfunc_node, series_strings};
 use super::model_output::{derivation_json, derivation_text};
 use super::node::Node;
+use super::probability_output::event_strings;
 use super::{latex, text, to_node};
 
 fn both(node: &Node) -> (String, String) {
@@ -111,33 +113,66 @@ fn part_strings(m: &SymbolicModel, part: &TotalPart) -> (String, String) {
     }
 }
 
+/// `join_i·part_i` for piece i (the join left out for the first piece), text and LaTeX.
+fn joined_part(m: &SymbolicModel, part: &TotalPart) -> (String, String) {
+    let (pt, pl) = part_strings(m, part);
+    let factors: Vec<Node> = m.pieces[..part.piece]
+        .iter()
+        .filter_map(|p| p.at_end.as_ref())
+        .map(|e| to_node::product(e, &m.index, vec![]))
+        .collect();
+    if factors.is_empty() {
+        return (pt, pl);
+    }
+    let (jt, jl) = both(&Node::product(factors));
+    (format!("{jt}·{pt}"), format!("{jl}\\,{pl}"))
+}
+
+/// part₁ + join₂·part₂ + …: Σ a(k)/a(b).
+fn inner_total(m: &SymbolicModel) -> (String, String) {
+    let (t, l): (Vec<String>, Vec<String>) = m.total.iter().map(|p| joined_part(m, p)).unzip();
+    (t.join(" + "), l.join(" + "))
+}
+
 /// Σ a(k) = a(b)·(part₁ + join₂·part₂ + …), in text and LaTeX.
 pub fn total_strings(m: &SymbolicModel) -> (String, String) {
-    let mut text_parts = Vec::new();
-    let mut latex_parts = Vec::new();
-    for part in &m.total {
-        let (pt, pl) = part_strings(m, part);
-        let mut factors = Vec::new();
-        for p in &m.pieces[..part.piece] {
-            if let Some(at_end) = &p.at_end {
-                factors.push(to_node::product(at_end, &m.index, vec![]));
-            }
-        }
-        if factors.is_empty() {
-            text_parts.push(pt);
-            latex_parts.push(pl);
-        } else {
-            let (jt, jl) = both(&Node::product(factors));
-            text_parts.push(format!("{jt}·{pt}"));
-            latex_parts.push(format!("{jl}\\,{pl}"));
-        }
-    }
+    let (t, l) = inner_total(m);
     let base = term_at(m, Node::Int(m.base_index.clone()));
     let (bt, bl) = both(&base);
-    (
-        format!("{bt}·({})", text_parts.join(" + ")),
-        format!("{bl}\\left({}\\right)", latex_parts.join(" + ")),
-    )
+    (format!("{bt}·({t})"), format!("{bl}\\left({l}\\right)"))
+}
+
+/// a(s_i)/a(b) without the base term: the product of the earlier pieces' end factors.
+fn join_ratio(m: &SymbolicModel, i: usize) -> (String, String) {
+    let factors: Vec<Node> = m.pieces[..i]
+        .iter()
+        .filter_map(|p| p.at_end.as_ref())
+        .map(|e| to_node::product(e, &m.index, vec![]))
+        .collect();
+    if factors.is_empty() {
+        return ("1".into(), "1".into());
+    }
+    both(&Node::product(factors))
+}
+
+/// P(event) = numerator/total for an event on the pieces' edges, text and LaTeX.
+pub fn probability_strings(m: &SymbolicModel, event: &Event) -> Option<(String, String)> {
+    let terms = m.event_terms(event)?;
+    let (mut t, mut l) = (Vec::new(), Vec::new());
+    for term in &terms {
+        let (a, b) = match term {
+            NumeratorTerm::Join(i) => join_ratio(m, *i),
+            NumeratorTerm::Part(i) => joined_part(m, &m.total[*i]),
+            NumeratorTerm::End => join_ratio(m, m.pieces.len()),
+        };
+        t.push(a);
+        l.push(b);
+    }
+    let (dt, dl) = inner_total(m);
+    Some((
+        format!("({})/({dt})", t.join(" + ")),
+        format!("\\frac{{{}}}{{{dl}}}", l.join(" + ")),
+    ))
 }
 
 fn missing_note(model: &Model) -> String {
@@ -153,8 +188,8 @@ fn missing_note(model: &Model) -> String {
     )
 }
 
-/// `telescope solve` text for symbolic breakpoints.
-pub fn symbolic_text(model: &Model, m: &SymbolicModel) -> String {
+/// `telescope solve` text for symbolic breakpoints (with `--prob` events on the pieces' edges).
+pub fn symbolic_text(model: &Model, m: &SymbolicModel, events: &[Event]) -> String {
     let mut out = derivation_text(model);
     out += "\n── with symbolic breakpoints ──\n";
     for (i, lines) in piece_lines(m).into_iter().enumerate() {
@@ -185,12 +220,23 @@ pub fn symbolic_text(model: &Model, m: &SymbolicModel) -> String {
             );
         }
     }
+    for e in events {
+        let (name, _) = event_strings(e);
+        match probability_strings(m, e) {
+            Some((t, _)) => out += &format!("probability  {name} = {t}\n"),
+            None => {
+                out += &format!(
+                    "probability  {name}: needs the breakpoints' values (its bounds are not at a piece's edge)\n"
+                )
+            }
+        }
+    }
     out += &format!("  note       {}\n", missing_note(model));
     out
 }
 
 /// LaTeX lines for symbolic breakpoints.
-pub fn symbolic_latex(m: &SymbolicModel) -> String {
+pub fn symbolic_latex(m: &SymbolicModel, events: &[Event]) -> String {
     let mut lines: Vec<String> = piece_lines(m)
         .into_iter()
         .map(|l| {
@@ -207,6 +253,11 @@ pub fn symbolic_latex(m: &SymbolicModel) -> String {
         "  \\sum_{{{} \\ge {}}} {seq} &= {total}",
         m.index, m.base_index
     ));
+    for e in events {
+        if let Some((_, l)) = probability_strings(m, e) {
+            lines.push(format!("  {} &= {l}", event_strings(e).1));
+        }
+    }
     format!(
         "\\begin{{align*}}\n{}\n\\end{{align*}}\n",
         lines.join(" \\\\\n")
@@ -214,7 +265,7 @@ pub fn symbolic_latex(m: &SymbolicModel) -> String {
 }
 
 /// JSON for symbolic breakpoints (schema: the third shape of `solve.schema.json`).
-pub fn symbolic_json(model: &Model, m: &SymbolicModel) -> Value {
+pub fn symbolic_json(model: &Model, m: &SymbolicModel, events: &[Event]) -> Value {
     let pieces: Vec<Value> = piece_lines(m)
         .into_iter()
         .zip(&m.pieces)
@@ -245,6 +296,12 @@ pub fn symbolic_json(model: &Model, m: &SymbolicModel) -> Value {
                 "methods": m.total.iter().filter_map(|p| p.closed.as_ref().map(|(_, how)| how.clone())).collect::<Vec<_>>(),
             },
             "note": missing_note(model),
+            "probabilities": events.iter().map(|e| {
+                let (t, l) = event_strings(e);
+                let closed = probability_strings(m, e)
+                    .map(|(ct, cl)| json!({ "text": ct, "latex": cl }));
+                json!({ "event": e.text, "text": t, "latex": l, "closed_form": closed })
+            }).collect::<Vec<_>>(),
         },
     })
 }
