@@ -1,7 +1,7 @@
 # Entry points for a fresh machine that has only the Rust toolchain and a C compiler.
 # `rug` builds GMP and MPFR from source, which needs GNU m4; `setup` installs it when missing.
 
-.PHONY: setup example test bench lint
+.PHONY: setup example test bench lint report-check
 
 setup:
 	@command -v m4 >/dev/null 2>&1 || { \
@@ -28,3 +28,22 @@ bench: setup
 lint: setup
 	cargo fmt --all -- --check
 	cargo clippy --all-targets -- -D warnings
+
+# The reports in a real browser: installs Chromium and poppler's pdftotext with apt-get when
+# missing (as root), renders every example's report headless to PNG and PDF, and fails on a
+# blank page or MathML shown as raw text. Screenshots: target/report-check/*.png.
+report-check: setup
+	@for tool in chromium:chromium pdftotext:poppler-utils; do \
+	  command=$${tool%%:*}; package=$${tool##*:}; \
+	  command -v $$command >/dev/null 2>&1 && continue; \
+	  if [ "$$(id -u)" = 0 ] && command -v apt-get >/dev/null 2>&1; then \
+	    echo "installing $$package (for the browser check of the reports)"; \
+	    (apt-get install -y $$package >/dev/null 2>&1 || { apt-get update >/dev/null 2>&1 && apt-get install -y $$package >/dev/null 2>&1; }) \
+	      || { echo "error: could not install $$package with apt-get"; exit 1; }; \
+	  else \
+	    echo "error: $$command is missing; install $$package with your package manager and rerun"; \
+	    exit 1; \
+	  fi; \
+	done
+	TELESCOPE_REPORT_CHECK=1 cargo test --test report_browser -- --nocapture
+	@echo "screenshots: target/report-check/*.png"

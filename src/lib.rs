@@ -17,6 +17,7 @@ pub mod analysis;
 pub mod check;
 pub mod closed_form;
 pub mod diagnostic;
+pub mod html_report;
 pub mod model;
 pub mod numeric;
 pub mod piecewise;

@@ -5,6 +5,7 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand, ValueEnum};
 
 use telescope::analysis::{analyse, AnalysisRequest};
+use telescope::html_report;
 use telescope::piecewise::build_piecewise_table;
 use telescope::probability::{analyse_model, normalized_piecewise_table};
 use telescope::render;
@@ -76,6 +77,28 @@ enum Command {
         normalize: bool,
         #[arg(long, value_enum, default_value_t = TableFormat::Text)]
         format: TableFormat,
+    },
+    /// A self-contained HTML page: formulas (MathML), derivation, evidence table and plots.
+    Report {
+        /// A rule in quotes, a model file, or - for standard input.
+        input: String,
+        #[arg(long = "param", value_name = "NAME=VALUE")]
+        params: Vec<String>,
+        /// Significant digits of every number on the page.
+        #[arg(long, default_value_t = 30)]
+        digits: u32,
+        /// The rows of the evidence table and the plots, A..B (default: from the support and
+        /// the tail).
+        #[arg(long = "k", value_name = "A..B")]
+        k: Option<String>,
+        /// The page's file (default: the model file's stem + .html, or report.html); - for
+        /// standard output.
+        #[arg(short = 'o', long = "output", value_name = "FILE")]
+        output: Option<String>,
+        /// A probability under the normalised law: "k >= K", "k <= K", "K1 <= k <= K2",
+        /// "k = K" (repeatable).
+        #[arg(long = "prob", value_name = "EVENT", allow_hyphen_values = true)]
+        prob: Vec<String>,
     },
     /// Prove or refute a claimed closed form, and say what is wrong with it.
     Check {
@@ -153,6 +176,8 @@ enum TableFormat {
     Text,
     Csv,
     Json,
+    /// Plot (1) of the report alone: a(k) against k, as SVG.
+    Svg,
 }
 
 /// Largest `--digits` accepted.
@@ -287,6 +312,43 @@ fn run(cli: Cli) -> Result<String, Error> {
                 quiet,
             })
         }
+        Command::Report {
+            input,
+            params,
+            digits,
+            k,
+            output,
+            prob,
+        } => {
+            if digits == 0 || digits > MAX_SOLVE_DIGITS {
+                return Err(Error::Usage(format!(
+                    "--digits {digits}: choose 1 to {MAX_SOLVE_DIGITS}"
+                )));
+            }
+            let request = html_report::ReportRequest {
+                input_arg: input.clone(),
+                params,
+                digits,
+                k,
+                terms: 2,
+                prob,
+            };
+            let text = session::read_input(&input)?;
+            let page = html_report::build_report(&text, &request)?;
+            let html = render::html::report_html(&page);
+            let path = match output.as_deref() {
+                Some("-") => return Ok(html),
+                Some(path) => std::path::PathBuf::from(path),
+                None => html_report::default_output(&input),
+            };
+            html_report::write_atomically(&path, &html)?;
+            eprintln!(
+                "wrote {} ({} kB)",
+                path.display(),
+                html.len().div_ceil(1000)
+            );
+            Ok(String::new())
+        }
         Command::Table {
             input,
             k,
@@ -333,6 +395,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                     TableFormat::Json => {
                         pretty(&render::analysis_output::normalized_table_json(&table))
                     }
+                    TableFormat::Svg => html_report::table_svg(&solved, &table.table)?,
                 });
             }
             let built = if model.is_piecewise() {
@@ -349,6 +412,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                 TableFormat::Text => render::table_text(&table),
                 TableFormat::Csv => render::table_csv(&table),
                 TableFormat::Json => pretty(&render::table_json(&table)),
+                TableFormat::Svg => html_report::table_svg(&solved, &table)?,
             })
         }
     }

@@ -76,31 +76,33 @@ impl Ticks {
         }
     }
 
-    /// Whole decades, every one or every 2, 5, 10, … decades when they are many.
+    /// Whole decades, every one or every 2, 5, 10, … decades when they are many; the range
+    /// ends at the data's outer decades, not at a multiple of the step.
     fn decades(low: f64, high: f64) -> Ticks {
-        let step = nice_step((high.ceil() - low.floor()) / (MAX_MAJOR - 1.0)).max(1.0);
-        let first = (low / step).floor();
-        let last = (high / step).ceil();
-        let major: Vec<f64> = (0..=(last - first) as i64)
+        let (low, high) = (low.floor(), high.ceil());
+        let step = nice_step((high - low) / (MAX_MAJOR - 1.0)).max(1.0);
+        let first = (low / step).ceil();
+        let last = (high / step).floor();
+        let major: Vec<f64> = (0..=(last - first).max(0.0) as i64)
             .map(|i| (first + i as f64) * step)
             .collect();
         // Minor ticks at 2…9 within each decade while the decades are few, else at skipped
         // decades.
         let mut minor = Vec::new();
-        if step == 1.0 && major.len() <= 7 {
-            for decade in &major[..major.len() - 1] {
-                minor.extend((2..10).map(|m| decade + f64::from(m).log10()));
+        if step == 1.0 && high - low <= 6.0 {
+            for decade in low as i64..high as i64 {
+                minor.extend((2..10).map(|m| decade as f64 + f64::from(m).log10()));
             }
         } else if step > 1.0 && step <= 10.0 {
-            for decade in (first * step) as i64..(last * step) as i64 {
+            for decade in low as i64..=high as i64 {
                 if decade as f64 % step != 0.0 {
                     minor.push(decade as f64);
                 }
             }
         }
         Ticks {
-            low: first * step,
-            high: last * step,
+            low,
+            high,
             major,
             minor,
             scale: Scale::Log,
@@ -283,7 +285,11 @@ mod tests {
     #[test]
     fn thousands_of_decades_get_a_nice_step() {
         let ticks = Ticks::covering(-5021643.0, 0.0, Scale::Log);
-        assert!(ticks.major.len() <= 8, "{:?}", ticks.major);
+        assert!(
+            ticks.major.len() <= 8 && ticks.major.len() >= 3,
+            "{:?}",
+            ticks.major
+        );
         assert!(ticks.low <= -5021643.0 && ticks.high >= 0.0);
         let step = ticks.major[1] - ticks.major[0];
         assert_eq!(step, 1e6);

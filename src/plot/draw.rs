@@ -276,10 +276,18 @@ fn draw_panel(
             ))
             .map_err(plot_error)?;
         if !rule.label.is_empty() {
+            // Near the right edge the label goes to the left of its line (about 7 px a
+            // character at this size).
+            let near_right = (x - x_ticks.low) > 0.85 * (x_ticks.high - x_ticks.low);
+            let dx = if near_right {
+                -(rule.label.chars().count() as i32 * 7 + 4)
+            } else {
+                4
+            };
             chart
                 .draw_series(std::iter::once(
                     EmptyElement::at((x, y_high))
-                        + Text::new(rule.label.clone(), (4, 16), label_font.clone()),
+                        + Text::new(rule.label.clone(), (dx, 16), label_font.clone()),
                 ))
                 .map_err(plot_error)?;
         }
@@ -303,7 +311,7 @@ fn draw_panel(
             chart
                 .draw_series(std::iter::once(
                     EmptyElement::at((x_ticks.low, y))
-                        + Text::new(rule.label.clone(), (6, -16), label_font.clone()),
+                        + Text::new(rule.label.clone(), (6, 4), label_font.clone()),
                 ))
                 .map_err(plot_error)?;
         }
@@ -337,7 +345,7 @@ fn draw_panel(
                 SeriesStyle::Markers => chart
                     .draw_series(
                         run.into_iter()
-                            .map(|p| Circle::new(p, 3, color.stroke_width(1))),
+                            .map(|p| Circle::new(p, 4, color.stroke_width(1))),
                     )
                     .map_err(plot_error)?,
             };

@@ -4,8 +4,12 @@
 pub mod analysis_output;
 pub mod check_output;
 pub mod derivation;
+pub mod escape;
+pub mod figures;
 pub mod greek;
+pub mod html;
 pub mod latex;
+pub mod mathml;
 pub mod model_output;
 pub mod node;
 pub mod probability_output;

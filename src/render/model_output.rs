@@ -51,7 +51,7 @@ fn rate_call(name: &str, model: &Model, shift: i64) -> Node {
 }
 
 /// The lines of one piece's derivation as (label, formula node pair or words).
-enum Line {
+pub(crate) enum Line {
     Formula(&'static str, Node, Node),
     Words(&'static str, String),
 }
@@ -76,7 +76,7 @@ fn assumption_words(a: &Assumption, model: &Model) -> String {
     }
 }
 
-fn piece_lines(model: &Model, piece: &Piece) -> Vec<Line> {
+pub(crate) fn piece_lines(model: &Model, piece: &Piece) -> Vec<Line> {
     let mut lines = Vec::new();
     let ratio_lhs = Node::frac(term(model, 0), term(model, -1));
     match &piece.derivation.source {
@@ -156,7 +156,7 @@ fn piece_lines(model: &Model, piece: &Piece) -> Vec<Line> {
     lines
 }
 
-fn range_words(model: &Model, piece: &Piece) -> String {
+pub(crate) fn range_words(model: &Model, piece: &Piece) -> String {
     let k = &model.index;
     let first = text::write(&to_node::ratfunc(&piece.first));
     match &piece.last {
@@ -177,7 +177,7 @@ fn range_latex(model: &Model, piece: &Piece) -> String {
     }
 }
 
-fn boundary_nodes(model: &Model) -> Option<(Node, Node)> {
+pub(crate) fn boundary_nodes(model: &Model) -> Option<(Node, Node)> {
     model.boundary.as_ref().map(|b| {
         (
             Node::Term(model.sequence.clone(), Box::new(Node::Int(b.index.clone()))),

@@ -198,6 +198,11 @@ pub fn region_text(region: &Region, yes: &str, no: &str) -> String {
     out
 }
 
+/// Where it holds, where it fails and the note, in LaTeX (math mode).
+pub fn region_latex_parts(region: &Region) -> (String, String, Option<String>) {
+    region_strings(region, Notation::Latex)
+}
+
 /// Where it holds, in LaTeX (math mode).
 pub fn region_latex(region: &Region) -> String {
     region_strings(region, Notation::Latex).0

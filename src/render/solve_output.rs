@@ -37,23 +37,19 @@ pub(crate) fn raw_nodes(solution: &Solution, index: &str) -> (Node, Node) {
     )
 }
 
-/// Condition as (text, latex).
-pub fn condition_strings(c: &Condition) -> (String, String) {
+/// A condition's layout: the quantity and what it must avoid.
+pub(crate) enum ConditionShape {
+    /// `x ≠ 0`, or a parameter `≠` a value.
+    NotEqual(Node, Node),
+    /// `x ∉ {first, next, …}`
+    NotIn(Node, Node, Node),
+}
+
+pub(crate) fn condition_shape(c: &Condition) -> ConditionShape {
     match &c.kind {
-        ConditionKind::NonZero(e) => {
-            let n = to_node::ratfunc(e);
-            (
-                format!("{} ≠ 0", text::write(&n)),
-                format!("{} \\neq 0", latex::write(&n)),
-            )
-        }
+        ConditionKind::NonZero(e) => ConditionShape::NotEqual(to_node::ratfunc(e), Node::int(0)),
         ConditionKind::NotEqual { param, value } => {
-            let p = Node::sym(param);
-            let v = to_node::rational(value);
-            (
-                format!("{} ≠ {}", text::write(&p), text::write(&v)),
-                format!("{} \\neq {}", latex::write(&p), latex::write(&v)),
-            )
+            ConditionShape::NotEqual(Node::sym(param), to_node::rational(value))
         }
         ConditionKind::NotIntegerAtLeast { expr, min } => {
             // −α − 1 ∉ {0, 1, …} reads better as α + 1 ∉ {0, −1, …}: write whichever of
@@ -70,30 +66,44 @@ pub fn condition_strings(c: &Condition) -> (String, String) {
             } else {
                 (n, min.clone(), min + 1)
             };
-            let (first, next) = (
+            ConditionShape::NotIn(
+                n,
                 to_node::rational(&Q::from_integer(first)),
                 to_node::rational(&Q::from_integer(next)),
-            );
-            (
-                format!(
-                    "{} ∉ {{{}, {}, …}}",
-                    text::write(&n),
-                    text::write(&first),
-                    text::write(&next)
-                ),
-                format!(
-                    "{} \\notin \\{{{}, {}, \\dots\\}}",
-                    latex::write(&n),
-                    latex::write(&first),
-                    latex::write(&next)
-                ),
             )
         }
     }
 }
 
+/// Condition as (text, latex).
+pub fn condition_strings(c: &Condition) -> (String, String) {
+    match condition_shape(c) {
+        ConditionShape::NotEqual(n, v) => (
+            format!("{} ≠ {}", text::write(&n), text::write(&v)),
+            format!("{} \\neq {}", latex::write(&n), latex::write(&v)),
+        ),
+        ConditionShape::NotIn(n, first, next) => (
+            format!(
+                "{} ∉ {{{}, {}, …}}",
+                text::write(&n),
+                text::write(&first),
+                text::write(&next)
+            ),
+            format!(
+                "{} \\notin \\{{{}, {}, \\dots\\}}",
+                latex::write(&n),
+                latex::write(&first),
+                latex::write(&next)
+            ),
+        ),
+    }
+}
+
 /// The status in one word and what settled it, in text and in LaTeX.
-fn status_parts(problem: &Problem, s: &Status) -> (&'static str, Option<(String, String)>) {
+pub(crate) fn status_parts(
+    problem: &Problem,
+    s: &Status,
+) -> (&'static str, Option<(String, String)>) {
     match s {
         Status::Undecided | Status::NotDecided(_) => ("undecided", None),
         Status::Holds(why) => ("holds", Some((why.clone(), why.clone()))),

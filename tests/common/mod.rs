@@ -71,3 +71,31 @@ pub fn telescope(args: &[&str]) -> Output {
         .output()
         .expect("binary runs")
 }
+
+/// Demo values for an example's parameters, chosen inside each declared range (invented
+/// numbers, only to exercise the page): the middle of a bounded range, 3/2 above a lower
+/// bound, 4, 6, 8, … for integers (distinct, so that breakpoints like c < K differ).
+pub fn demo_params(name: &str, text: &str) -> Vec<String> {
+    let model =
+        telescope::model::build_model(text).unwrap_or_else(|e| panic!("{name}: {}", e.message));
+    let mut integers = 0;
+    model
+        .params
+        .iter()
+        .map(|p| {
+            let step = Q::from_integer((2 * integers).into());
+            if p.integer {
+                integers += 1;
+            }
+            let value: Q = match (&p.lower, &p.upper, p.integer) {
+                (Some((lo, _)), _, true) => lo + Q::from_integer(3.into()) + step,
+                (None, _, true) => Q::from_integer(4.into()) + step,
+                (Some((lo, _)), Some((hi, _)), false) => (lo + hi) / Q::from_integer(2.into()),
+                (Some((lo, _)), None, false) => lo + Q::new(3.into(), 2.into()),
+                (None, Some((hi, _)), false) => hi - Q::from_integer(1.into()),
+                (None, None, false) => Q::new(3.into(), 2.into()),
+            };
+            format!("{}={value}", p.name)
+        })
+        .collect()
+}

@@ -247,7 +247,7 @@ pub fn series_strings(s: &HyperSeries) -> (String, String) {
     (text, latex)
 }
 
-pub(super) fn subscript(n: usize) -> String {
+pub(crate) fn subscript(n: usize) -> String {
     n.to_string()
         .chars()
         .map(|c| match c {

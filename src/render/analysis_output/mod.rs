@@ -13,7 +13,7 @@ use serde_json::{json, Value};
 use crate::analysis::{
     Analysis, Finiteness, Inequality, Moment, NumberReport, Region, Requirement, Verdict,
 };
-use formula::subscript;
+pub(crate) use formula::subscript;
 
 use super::node::Node;
 use super::region::{region_latex, region_text, region_words};
