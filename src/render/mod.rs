@@ -4,11 +4,13 @@
 pub mod analysis_output;
 pub mod check_output;
 pub mod derivation;
+pub mod fit_output;
 pub mod greek;
 pub mod latex;
 pub mod model_output;
 pub mod node;
 pub mod report;
+pub mod sample_output;
 pub mod solve_output;
 pub mod table_output;
 pub mod text;
