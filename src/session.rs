@@ -462,6 +462,7 @@ pub fn run_fit(
             bootstrap: options.bootstrap,
             seed: options.seed,
             progress: true,
+            estimates_only: false,
         };
         let report = crate::fit::fit(&problem, counts, &request);
         out.push(FittedModel {

@@ -39,6 +39,9 @@ pub struct FitRequest {
     pub seed: u64,
     /// Show a progress bar on a terminal.
     pub progress: bool,
+    /// Only the estimates and standard errors (no intervals, no goodness of fit): for
+    /// simulation studies.
+    pub estimates_only: bool,
 }
 
 /// One estimated parameter.
@@ -51,7 +54,8 @@ pub struct Estimate {
     pub standard_error: Option<f64>,
     /// The central-difference step used for it.
     pub step: Option<f64>,
-    pub interval: Interval,
+    /// None with `estimates_only`.
+    pub interval: Option<Interval>,
 }
 
 /// A successful fit.
@@ -62,8 +66,9 @@ pub struct Fitted {
     pub aic: f64,
     pub bic: f64,
     pub total_route: TotalRoute,
-    pub chi_square: ChiSquare,
-    pub ks_distance: f64,
+    /// None with `estimates_only`.
+    pub chi_square: Option<ChiSquare>,
+    pub ks_distance: Option<f64>,
     pub bootstrap: Option<Result<Bootstrap, String>>,
 }
 
@@ -189,7 +194,8 @@ fn fit_likelihood(
     for (i, p) in like.free.iter().enumerate() {
         let slot = real.iter().position(|r| *r == i);
         let se = slot.map(|s| errors[s]);
-        let interval = profile::profile_interval(like, i, &theta, best, se.unwrap_or(1.0));
+        let interval = (!request.estimates_only)
+            .then(|| profile::profile_interval(like, i, &theta, best, se.unwrap_or(1.0)));
         estimates.push(Estimate {
             name: p.name.clone(),
             integer: p.integer,
@@ -200,19 +206,22 @@ fn fit_likelihood(
         });
     }
     let m = like.free.len() as f64;
-    let chi_square = gof::chi_square(&like.counts, &law, like.free.len());
-    let ks_distance = gof::ks_distance(&like.counts, &law);
-    let bootstrap = (request.bootstrap > 0).then(|| {
-        bootstrap::bootstrap_ks(
-            problem,
-            like,
-            &theta,
-            ks_distance,
-            request.bootstrap,
-            request.seed,
-            request.progress,
-        )
-    });
+    let full = !request.estimates_only;
+    let chi_square = full.then(|| gof::chi_square(&like.counts, &law, like.free.len()));
+    let ks_distance = full.then(|| gof::ks_distance(&like.counts, &law));
+    let bootstrap = ks_distance
+        .filter(|_| request.bootstrap > 0)
+        .map(|distance| {
+            bootstrap::bootstrap_ks(
+                problem,
+                like,
+                &theta,
+                distance,
+                request.bootstrap,
+                request.seed,
+                request.progress,
+            )
+        });
     Ok(Fitted {
         estimates,
         log_likelihood: best,

@@ -160,29 +160,45 @@ pub fn profile_interval(
     }
 }
 
-/// The point between `inside` (g ≥ 0) and `outside` (g < 0 or undefined) where g = 0.
+/// The point between `inside` (g ≥ 0) and `outside` (g < 0 or undefined) where g = 0:
+/// regula falsi with the Illinois modification (Dahlquist & Björck, *Numerical Methods*,
+/// 1974, §6.2) while g is defined at both ends, bisection otherwise.
 fn bisect(g: &dyn Fn(f64) -> f64, mut inside: f64, mut outside: f64) -> f64 {
-    for _ in 0..100 {
-        let mid = 0.5 * (inside + outside);
-        if mid == inside || mid == outside {
+    let mut g_in = g(inside);
+    let mut g_out = g(outside);
+    let mut side = 0i8;
+    for _ in 0..200 {
+        let width = (outside - inside).abs();
+        if width <= 1e-10 * inside.abs().max(outside.abs()).max(1e-300) {
             break;
         }
+        let mid = if g_in.is_finite() && g_out.is_finite() && g_in > g_out {
+            let t = inside + (outside - inside) * g_in / (g_in - g_out);
+            // Keep strictly inside the bracket.
+            let lo = inside.min(outside) + width * 1e-3;
+            let hi = inside.max(outside) - width * 1e-3;
+            t.clamp(lo, hi)
+        } else {
+            0.5 * (inside + outside)
+        };
         let v = g(mid);
         if v.is_finite() && v >= 0.0 {
             inside = mid;
+            g_in = v;
+            if side == 1 {
+                g_out /= 2.0;
+            }
+            side = 1;
         } else {
             outside = mid;
-        }
-        if (outside - inside).abs() <= 1e-12 * inside.abs().max(1e-300) {
-            break;
+            g_out = v;
+            if side == -1 {
+                g_in /= 2.0;
+            }
+            side = -1;
         }
     }
-    // The end of an interval rounds outwards.
-    if (outside - inside).abs() > 0.0 {
-        0.5 * (inside + outside)
-    } else {
-        inside
-    }
+    0.5 * (inside + outside)
 }
 
 /// The last integer (stepping by `direction`) whose profile ℓ stays above the cut.

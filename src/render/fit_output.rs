@@ -80,14 +80,15 @@ fn fitted_text(out: &mut String, fitted: &Fitted, n: u64) {
             let se = e
                 .standard_error
                 .map_or("—".to_string(), |s| number(s, STAT_DIGITS));
+            let interval = e.interval.as_ref().map_or("—".to_string(), |i| {
+                format!("[{}, {}]", end_text(&i.lower), end_text(&i.upper))
+            });
             let _ = writeln!(
                 out,
-                "{:<12} {:>14} {:>12}   [{}, {}]",
+                "{:<12} {:>14} {:>12}   {interval}",
                 e.name,
                 estimate_value(e),
                 se,
-                end_text(&e.interval.lower),
-                end_text(&e.interval.upper)
             );
         }
     }
@@ -114,7 +115,12 @@ fn fitted_text(out: &mut String, fitted: &Fitted, n: u64) {
             number(HESSIAN_STEP, 1)
         );
     }
-    let chi = &fitted.chi_square;
+    if let (Some(chi), Some(distance)) = (&fitted.chi_square, fitted.ks_distance) {
+        goodness_text(out, fitted, chi, distance);
+    }
+}
+
+fn goodness_text(out: &mut String, fitted: &Fitted, chi: &crate::fit::ChiSquare, distance: f64) {
     let _ = match (chi.degrees_of_freedom, chi.p_value) {
         (Some(df), Some(p)) => writeln!(
             out,
@@ -133,7 +139,7 @@ fn fitted_text(out: &mut String, fitted: &Fitted, n: u64) {
     let _ = write!(
         out,
         "Kolmogorov–Smirnov distance: D = {}",
-        number(fitted.ks_distance, STAT_DIGITS)
+        number(distance, STAT_DIGITS)
     );
     match &fitted.bootstrap {
         None => {
@@ -203,7 +209,7 @@ pub fn fit_json(report: &FitReport, heading: &FitHeading) -> Value {
                         "value": if e.integer { (e.value.round() as i64).to_string() } else { number(e.value, 12) },
                         "standard_error": e.standard_error.map(|s| number(s, 6)),
                         "hessian_step": e.step.map(|h| number(h, 3)),
-                        "interval": { "lower": end_json(&e.interval.lower), "upper": end_json(&e.interval.upper) },
+                        "interval": e.interval.as_ref().map(|i| json!({ "lower": end_json(&i.lower), "upper": end_json(&i.upper) })),
                     })
                 })
                 .collect();
@@ -212,28 +218,27 @@ pub fn fit_json(report: &FitReport, heading: &FitHeading) -> Value {
             map.insert("aic".into(), json!(number(f.aic, 12)));
             map.insert("bic".into(), json!(number(f.bic, 12)));
             map.insert("normalisation".into(), json!(f.total_route.describe()));
-            let c = &f.chi_square;
-            let bins: Vec<Value> = c
-                .bins
-                .iter()
-                .map(|b| {
-                    json!({
-                        "first": b.first.to_string(),
-                        "last": b.last.map(|l| l.to_string()),
-                        "observed": b.observed.to_string(),
-                        "expected": number(b.expected, 6),
+            let chi_square = f.chi_square.as_ref().map(|c| {
+                let bins: Vec<Value> = c
+                    .bins
+                    .iter()
+                    .map(|b| {
+                        json!({
+                            "first": b.first.to_string(),
+                            "last": b.last.map(|l| l.to_string()),
+                            "observed": b.observed.to_string(),
+                            "expected": number(b.expected, 6),
+                        })
                     })
-                })
-                .collect();
-            map.insert(
-                "chi_square".into(),
+                    .collect();
                 json!({
                     "statistic": number(c.statistic, 8),
                     "degrees_of_freedom": c.degrees_of_freedom.map(|d| d.to_string()),
                     "p_value": c.p_value.map(|p| number(p, 6)),
                     "bins": bins,
-                }),
-            );
+                })
+            });
+            map.insert("chi_square".into(), chi_square.unwrap_or(Value::Null));
             let bootstrap = match &f.bootstrap {
                 None => Value::Null,
                 Some(Err(why)) => json!({ "error": why }),
@@ -245,10 +250,10 @@ pub fn fit_json(report: &FitReport, heading: &FitHeading) -> Value {
                     "seed": b.seed.to_string(),
                 }),
             };
-            map.insert(
-                "ks".into(),
-                json!({ "distance": number(f.ks_distance, 8), "bootstrap": bootstrap }),
-            );
+            let ks = f
+                .ks_distance
+                .map(|d| json!({ "distance": number(d, 8), "bootstrap": bootstrap }));
+            map.insert("ks".into(), ks.unwrap_or(Value::Null));
         }
     }
     out

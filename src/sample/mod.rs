@@ -55,6 +55,8 @@ pub struct Sampler {
     pub first: i64,
     /// `cdf[i]` = P(X ≤ first + i), rounded to double.
     cdf: Vec<f64>,
+    /// `pmf[i]` = p(first + i), rounded to double from MPFR.
+    pmf: Vec<f64>,
     /// `guide[g]`: the first i with cdf[i] > g / guide.len().
     guide: Vec<u32>,
     /// Mass beyond the last tabulated k, and a bound on its absolute error.
@@ -97,6 +99,7 @@ impl Sampler {
         let inverse_total = Float::with_val(SUM_BITS, law.total.recip_ref());
         let mut head = Float::new(SUM_BITS);
         let mut cdf = Vec::new();
+        let mut pmf = Vec::new();
         let mut k = law.k_min;
         let mut tail = TailDraw::None;
         loop {
@@ -107,6 +110,7 @@ impl Sampler {
                     Float::with_val(SUM_BITS, mantissa) << shift
                 }
             };
+            pmf.push(Float::with_val(SUM_BITS, &term * &inverse_total).to_f64());
             head += term;
             let p_cum = Float::with_val(SUM_BITS, &head * &inverse_total);
             cdf.push(p_cum.to_f64().min(1.0));
@@ -144,6 +148,7 @@ impl Sampler {
             first: law.k_min,
             guide: guide_table(&cdf),
             cdf,
+            pmf,
             mass_beyond,
             // The head sum carries the relative errors of its terms and of the total.
             mass_beyond_error: pmf_rel_error + f64::EPSILON,
@@ -169,13 +174,12 @@ impl Sampler {
         }
     }
 
-    /// p(k) from the table (0 outside it).
+    /// p(k) from the table (0 outside it), rounded once from MPFR.
     pub fn pmf_at(&self, k: i64) -> f64 {
         if k < self.first || k > self.last_tabulated() {
             return 0.0;
         }
-        let i = (k - self.first) as usize;
-        self.cdf[i] - if i == 0 { 0.0 } else { self.cdf[i - 1] }
+        self.pmf[(k - self.first) as usize]
     }
 
     /// One draw.
