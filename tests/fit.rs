@@ -375,3 +375,45 @@ fn sample_output_reads_back_into_fit_and_json_names_every_field() {
     let se: f64 = e["standard_error"].as_str().unwrap().parse().unwrap();
     assert!((alpha - 2.0).abs() < 4.0 * se);
 }
+
+#[test]
+fn rendered_fit_and_sample_reports() {
+    // The layout users see, reviewed like code (values checked by the tests above).
+    let model = std::env::temp_dir().join(format!("telescope-nb-{}.rule", std::process::id()));
+    std::fs::write(&model, NEGATIVE_BINOMIAL).unwrap();
+    let out = common::telescope(&[
+        "fit",
+        model.to_str().unwrap(),
+        "--data",
+        "tests/reference/randhie_mdvis_counts.csv",
+    ]);
+    assert_eq!(out.status.code(), Some(0));
+    insta::assert_snapshot!("fit_randhie_text", String::from_utf8(out.stdout).unwrap());
+    let out = common::telescope(&[
+        "sample",
+        YULE_SIMON,
+        "--param",
+        "alpha=5/2",
+        "--n",
+        "12",
+        "--seed",
+        "1",
+    ]);
+    insta::assert_snapshot!(
+        "sample_yule_simon_text",
+        String::from_utf8(out.stdout).unwrap()
+    );
+    let out = common::telescope(&[
+        "fit",
+        "--data",
+        "tests/reference/randhie_mdvis_counts.csv",
+        "--format",
+        "json",
+        model.to_str().unwrap(),
+        "param lambda > 0\na(k)/a(k-1) = lambda/k for k >= 1",
+    ]);
+    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["models"][0]["rank"], "1");
+    assert_eq!(v["models"][0]["free"], serde_json::json!(["r", "p"]));
+    assert_eq!(v["models"][1]["akaike_weight"], "0");
+}

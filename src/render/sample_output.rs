@@ -47,7 +47,7 @@ pub fn sample_summary(run: &SampleRun, rule: &str) -> String {
     let _ = writeln!(out, "# total: {}", run.law.route.describe());
     let _ = writeln!(
         out,
-        "# inverse CDF tabulated for k = {}..{}; relative error of each p(k) ≤ {}",
+        "# inverse CDF tabulated for k = {}..{}; each p(k) to relative error ≤ {} before rounding to double",
         s.first,
         s.last_tabulated(),
         number(s.pmf_rel_error, 2)

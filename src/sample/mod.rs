@@ -18,7 +18,7 @@ mod stream;
 
 use std::collections::BTreeMap;
 
-use rug::{Float, Integer, Rational};
+use rug::{Assign, Float, Integer, Rational};
 
 use crate::algebra::Q;
 use crate::law::{LawAt, LawError};
@@ -102,19 +102,25 @@ impl Sampler {
         let mut pmf = Vec::new();
         let mut k = law.k_min;
         let mut tail = TailDraw::None;
+        // Buffers reused across steps: this loop is most of the cost of a sample.
+        let mut term = Float::new(SUM_BITS);
+        let mut scratch = Float::new(SUM_BITS);
         loop {
-            let term = match product.value_ref() {
-                Ok(q) => Float::with_val(SUM_BITS, q),
+            match product.value_ref() {
+                Ok(q) => term.assign(q),
                 Err((mantissa, exp2)) => {
-                    let shift = exp2.clamp(-(1 << 30), 1 << 30) as i32;
-                    Float::with_val(SUM_BITS, mantissa) << shift
+                    term.assign(mantissa);
+                    term <<= exp2.clamp(-(1 << 30), 1 << 30) as i32;
                 }
-            };
-            pmf.push(Float::with_val(SUM_BITS, &term * &inverse_total).to_f64());
-            head += term;
-            let p_cum = Float::with_val(SUM_BITS, &head * &inverse_total);
-            cdf.push(p_cum.to_f64().min(1.0));
-            let remaining = Float::with_val(SUM_BITS, 1 - p_cum).to_f64();
+            }
+            scratch.assign(&term * &inverse_total);
+            pmf.push(scratch.to_f64());
+            head += &term;
+            scratch.assign(&head * &inverse_total);
+            let cumulative = scratch.to_f64().min(1.0);
+            cdf.push(cumulative);
+            // In double: 1 − F is only compared with TAIL_MASS ≫ 2^-53.
+            let remaining = 1.0 - cumulative;
             if law.last.is_some_and(|l| k >= l) {
                 break;
             }
