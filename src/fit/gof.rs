@@ -73,6 +73,7 @@ pub fn chi_square(counts: &Counts, law: &LawAt, fitted: usize) -> ChiSquare {
         expected: 0.0,
     };
     let mut walk = PmfWalk::new(law).peekable();
+    let mut closed = false;
     while let Some((k, p)) = walk.next() {
         cumulative += p;
         current.expected += n * p;
@@ -88,7 +89,8 @@ pub fn chi_square(counts: &Counts, law: &LawAt, fitted: usize) -> ChiSquare {
             } else {
                 None
             };
-            push_or_merge(&mut bins, current);
+            push_or_merge(&mut bins, current.clone());
+            closed = true;
             break;
         }
         if current.expected >= MIN_EXPECTED {
@@ -101,6 +103,13 @@ pub fn chi_square(counts: &Counts, law: &LawAt, fitted: usize) -> ChiSquare {
             };
             bins.push(std::mem::replace(&mut current, next));
         }
+    }
+    if !closed {
+        // The walk stopped at its length limit (a very slow tail): the rest is one open bin.
+        current.expected += n * (1.0 - cumulative).max(0.0);
+        current.observed = counts.by_k.range(current.first..).map(|(_, c)| *c).sum();
+        current.last = None;
+        push_or_merge(&mut bins, current);
     }
     let statistic: f64 = bins
         .iter()

@@ -20,10 +20,17 @@ pub struct FitHeading<'a> {
     pub data: &'a str,
 }
 
-fn end_text(end: &End) -> String {
+fn end_text(end: &End, integer: bool) -> String {
+    let show = |v: f64| {
+        if integer {
+            format!("{}", v.round() as i64)
+        } else {
+            number(v, 6)
+        }
+    };
     match end {
-        End::At(v) => number(*v, 6),
-        End::RangeEnd(v) => format!("{} (range end)", number(*v, 6)),
+        End::At(v) => show(*v),
+        End::RangeEnd(v) => format!("{} (range end)", show(*v)),
     }
 }
 
@@ -81,7 +88,11 @@ fn fitted_text(out: &mut String, fitted: &Fitted, n: u64) {
                 .standard_error
                 .map_or("—".to_string(), |s| number(s, STAT_DIGITS));
             let interval = e.interval.as_ref().map_or("—".to_string(), |i| {
-                format!("[{}, {}]", end_text(&i.lower), end_text(&i.upper))
+                format!(
+                    "[{}, {}]",
+                    end_text(&i.lower, e.integer),
+                    end_text(&i.upper, e.integer)
+                )
             });
             let _ = writeln!(
                 out,
