@@ -23,6 +23,7 @@ pub mod law;
 pub mod model;
 pub mod numeric;
 pub mod piecewise;
+pub mod probability;
 pub mod ratio;
 pub mod render;
 pub mod sample;
