@@ -417,3 +417,49 @@ fn rendered_fit_and_sample_reports() {
     assert_eq!(v["models"][0]["free"], serde_json::json!(["r", "p"]));
     assert_eq!(v["models"][1]["akaike_weight"], "0");
 }
+
+#[test]
+fn fit_json_validates_against_its_schema() {
+    // schema/fit.schema.json is strict (no undocumented field), like the other commands'.
+    let path = format!("{}/schema/fit.schema.json", env!("CARGO_MANIFEST_DIR"));
+    let schema: Value = serde_json::from_str(&std::fs::read_to_string(path).unwrap()).unwrap();
+    let validator = jsonschema::validator_for(&schema).unwrap();
+    let data = "tests/reference/randhie_mdvis_counts.csv";
+    let poisson = "param lambda > 0\na(k)/a(k-1) = lambda/k for k >= 1";
+    let zeros = std::env::temp_dir().join(format!("telescope-zeros-{}.txt", std::process::id()));
+    std::fs::write(&zeros, "0\n0\n").unwrap();
+    let runs: Vec<Vec<&str>> = vec![
+        vec![
+            "fit",
+            poisson,
+            "--data",
+            data,
+            "--format",
+            "json",
+            "--bootstrap",
+            "3",
+            "--seed",
+            "1",
+        ],
+        vec![
+            "fit", poisson, YULE_SIMON, "--data", data, "--format", "json", "--k-min", "1",
+        ],
+        vec![
+            "fit",
+            poisson,
+            "--data",
+            zeros.to_str().unwrap(),
+            "--format",
+            "json",
+        ],
+    ];
+    for args in runs {
+        let out = common::telescope(&args);
+        let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+        let errors: Vec<String> = validator
+            .iter_errors(&v)
+            .map(|e| format!("{e} at {}", e.instance_path))
+            .collect();
+        assert!(errors.is_empty(), "{args:?}: {errors:?}");
+    }
+}
