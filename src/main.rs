@@ -148,6 +148,46 @@ enum Command {
         #[arg(long)]
         quiet: bool,
     },
+    /// Independent draws from the normalised law (inverse CDF over the running product).
+    Sample {
+        /// A rule in quotes, a model file, or - for standard input.
+        input: String,
+        /// A parameter value, exact (every parameter needs one).
+        #[arg(long = "param", value_name = "NAME=VALUE")]
+        params: Vec<String>,
+        /// Number of draws.
+        #[arg(long, value_name = "N")]
+        n: usize,
+        /// Seed of the random stream (default: from the clock, and printed).
+        #[arg(long, value_name = "S")]
+        seed: Option<u64>,
+        #[arg(long, value_enum, default_value_t = SampleFormat::Text)]
+        format: SampleFormat,
+    },
+    /// Maximum-likelihood fit of the parameters to observed counts, with errors, intervals
+    /// and goodness of fit; several INPUTs are ranked by AIC.
+    Fit {
+        /// Rules in quotes, model files, or - for standard input.
+        #[arg(required = true)]
+        inputs: Vec<String>,
+        /// Observed counts: CSV `k,count` or one observed k per line; - for standard input.
+        #[arg(long, value_name = "FILE")]
+        data: String,
+        /// Hold a parameter at a value instead of fitting it (repeatable).
+        #[arg(long = "param", value_name = "NAME=VALUE")]
+        params: Vec<String>,
+        /// Leave out k < K and renormalise the law over k ≥ K.
+        #[arg(long = "k-min", value_name = "K", allow_hyphen_values = true)]
+        k_min: Option<i64>,
+        /// Parametric-bootstrap replicates for the Kolmogorov–Smirnov p-value.
+        #[arg(long, value_name = "N", default_value_t = 0)]
+        bootstrap: usize,
+        /// Seed of the bootstrap's random streams (default: from the clock, and printed).
+        #[arg(long, value_name = "S")]
+        seed: Option<u64>,
+        #[arg(long, value_enum, default_value_t = FitFormat::Text)]
+        format: FitFormat,
+    },
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -156,6 +196,18 @@ enum SweepFormat {
     Csv,
     Json,
     Svg,
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum FitFormat {
+    Text,
+    Json,
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum SampleFormat {
+    Text,
+    Csv,
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -349,6 +401,30 @@ fn run(cli: Cli) -> Result<String, Error> {
             );
             Ok(String::new())
         }
+        Command::Fit {
+            inputs,
+            data,
+            params,
+            k_min,
+            bootstrap,
+            seed,
+            format,
+        } => {
+            let options = session::FitOptions {
+                params: &params,
+                k_min,
+                bootstrap,
+                seed: seed.unwrap_or_else(session::clock_seed),
+            };
+            run_fit(&inputs, &data, &options, format)
+        }
+        Command::Sample {
+            input,
+            params,
+            n,
+            seed,
+            format,
+        } => run_sample(&input, &params, n, seed, format),
         Command::Table {
             input,
             k,
@@ -416,6 +492,65 @@ fn run(cli: Cli) -> Result<String, Error> {
             })
         }
     }
+}
+
+/// `telescope sample`.
+fn run_sample(
+    input: &str,
+    params: &[String],
+    n: usize,
+    seed: Option<u64>,
+    format: SampleFormat,
+) -> Result<String, Error> {
+    let input = session::read_input(input)?;
+    let problem = session::load_problem(&input)?;
+    let values = session::parse_values(&problem, params)?;
+    let seed = seed.unwrap_or_else(session::clock_seed);
+    let run = session::run_sample(&problem, &values, n, seed)?;
+    Ok(match format {
+        SampleFormat::Text => {
+            let rule = render::sample_output::rule_text(&problem);
+            render::sample_output::sample_text(&run, &rule)
+        }
+        SampleFormat::Csv => render::sample_output::sample_csv(&run),
+    })
+}
+
+/// `telescope fit`.
+fn run_fit(
+    inputs: &[String],
+    data: &str,
+    options: &session::FitOptions,
+    format: FitFormat,
+) -> Result<String, Error> {
+    use render::fit_output::{comparison_json, comparison_text, fit_json, fit_text, FitHeading};
+    if data == "-" && inputs.iter().any(|i| i == "-") {
+        return Err(Error::Usage(
+            "--data - and INPUT - both want standard input; put one in a file".into(),
+        ));
+    }
+    let (data_input, counts) = session::read_counts(data)?;
+    let mut fitted = session::run_fit(inputs, &counts, options)?;
+    let data_name = data_input.name;
+    if fitted.len() == 1 {
+        let model = &fitted[0];
+        let rule = render::sample_output::rule_text(&model.problem);
+        let heading = FitHeading {
+            rule: &rule,
+            data: &data_name,
+        };
+        return Ok(match format {
+            FitFormat::Text => fit_text(&model.report, &heading),
+            FitFormat::Json => pretty(&fit_json(&model.report, &heading)),
+        });
+    }
+    let mut reports: Vec<(String, telescope::fit::FitReport)> =
+        fitted.drain(..).map(|m| (m.name, m.report)).collect();
+    telescope::fit::rank_by_aic(&mut reports);
+    Ok(match format {
+        FitFormat::Text => comparison_text(&reports, &data_name),
+        FitFormat::Json => pretty(&comparison_json(&reports, &data_name)),
+    })
 }
 
 /// `telescope check`: the report, and whether the claim holds (proved or holds numerically).

@@ -245,3 +245,171 @@ pub fn parse_events(
         })
         .collect()
 }
+
+/// A seed from the clock, for runs without `--seed` (the output prints it).
+pub fn clock_seed() -> u64 {
+    use std::time::{SystemTime, UNIX_EPOCH};
+    SystemTime::now()
+        .duration_since(UNIX_EPOCH)
+        .map(|d| d.as_nanos() as u64)
+        .unwrap_or(0)
+}
+
+/// Largest `sample --n`.
+pub const MAX_DRAWS: usize = 100_000_000;
+
+/// `sample`: every parameter needs a value; the law must be a normalisable probability law.
+pub fn run_sample(
+    problem: &Problem,
+    values: &BTreeMap<String, Q>,
+    n: usize,
+    seed: u64,
+) -> Result<crate::sample::SampleRun, Error> {
+    if n > MAX_DRAWS {
+        return Err(Error::Usage(format!(
+            "--n {n}: at most {MAX_DRAWS} draws at a time"
+        )));
+    }
+    let missing: Vec<&str> = problem
+        .params
+        .iter()
+        .filter(|p| !values.contains_key(&p.name))
+        .map(|p| p.name.as_str())
+        .collect();
+    if !missing.is_empty() {
+        return Err(Error::Usage(format!(
+            "sample draws from one law: give every parameter a value (missing: --param {}=…)",
+            missing.join("=… --param ")
+        )));
+    }
+    crate::sample::sample_law(problem, values, n, seed)
+        .map_err(|e| Error::Usage(format!("cannot sample this law: {}", e.message())))
+}
+
+/// Reads observed counts from a file or standard input (`-`); a bad row points at its line.
+pub fn read_counts(arg: &str) -> Result<(Input, crate::data::Counts), Error> {
+    let input = if arg == "-" {
+        let mut text = String::new();
+        std::io::stdin()
+            .read_to_string(&mut text)
+            .map_err(|e| Error::Usage(format!("cannot read standard input: {e}")))?;
+        Input {
+            name: "<stdin>".into(),
+            text,
+        }
+    } else {
+        let text = std::fs::read_to_string(arg)
+            .map_err(|e| Error::Usage(format!("--data {arg}: cannot read it: {e}")))?;
+        Input {
+            name: arg.to_string(),
+            text,
+        }
+    };
+    let counts = crate::data::parse_counts(&input.text).map_err(|diagnostic| Error::Input {
+        input: input.clone(),
+        diagnostic,
+    })?;
+    if counts.total() == 0 {
+        return Err(Error::Usage(format!(
+            "--data {}: no observations in it",
+            input.name
+        )));
+    }
+    Ok((input, counts))
+}
+
+/// One fitted model of `fit`: the argument that named it, its rule and the report.
+pub struct FittedModel {
+    pub name: String,
+    pub problem: Problem,
+    pub report: crate::fit::FitReport,
+}
+
+/// What `fit` was asked beyond the models and the data.
+pub struct FitOptions<'a> {
+    pub params: &'a [String],
+    pub k_min: Option<i64>,
+    pub bootstrap: usize,
+    pub seed: u64,
+}
+
+/// Largest `--bootstrap`.
+pub const MAX_BOOTSTRAP: usize = 100_000;
+
+/// Fits every model to the same counts. With several models and no `--k-min`, all are fitted
+/// over k ≥ the largest base index, so that their likelihoods (and AICs) see the same data.
+pub fn run_fit(
+    inputs: &[String],
+    counts: &crate::data::Counts,
+    options: &FitOptions,
+) -> Result<Vec<FittedModel>, Error> {
+    if options.bootstrap > MAX_BOOTSTRAP {
+        return Err(Error::Usage(format!(
+            "--bootstrap {}: at most {MAX_BOOTSTRAP} replicates",
+            options.bootstrap
+        )));
+    }
+    if inputs.iter().filter(|i| *i == "-").count() > 1 {
+        return Err(Error::Usage("only one INPUT can be standard input".into()));
+    }
+    let mut problems = Vec::new();
+    for arg in inputs {
+        let input = read_input(arg)?;
+        problems.push((arg.clone(), load_problem(&input)?));
+    }
+    // Each --param applies to the models that have the parameter.
+    for pair in options.params {
+        let name = pair
+            .split_once('=')
+            .map_or(pair.as_str(), |(n, _)| n)
+            .trim();
+        if !problems.iter().any(|(_, p)| p.param(name).is_some()) {
+            let single = problems.len() == 1;
+            if single {
+                parse_values(&problems[0].1, std::slice::from_ref(pair))?;
+            }
+            return Err(Error::Usage(format!(
+                "--param {pair}: no model has a parameter `{name}`"
+            )));
+        }
+    }
+    let k_min = match options.k_min {
+        Some(k) => Some(k),
+        None if problems.len() > 1 => problems
+            .iter()
+            .filter_map(|(_, p)| num_traits::ToPrimitive::to_i64(&p.base_index()))
+            .max(),
+        None => None,
+    };
+    let mut out = Vec::new();
+    for (name, problem) in problems {
+        let own: Vec<String> = options
+            .params
+            .iter()
+            .filter(|pair| {
+                let n = pair
+                    .split_once('=')
+                    .map_or(pair.as_str(), |(n, _)| n)
+                    .trim();
+                problem.param(n).is_some()
+            })
+            .cloned()
+            .collect();
+        let fixed = parse_values(&problem, &own)?;
+        let request = crate::fit::FitRequest {
+            k_min,
+            fixed,
+            bootstrap: options.bootstrap,
+            seed: options.seed,
+            progress: true,
+            estimates_only: false,
+        };
+        let report = crate::fit::fit(&problem, counts, &request);
+        out.push(FittedModel {
+            name,
+            problem,
+            report,
+        });
+    }
+    Ok(out)
+}

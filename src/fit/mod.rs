@@ -1,0 +1,270 @@
+//! `telescope fit`: maximum-likelihood estimates of a rule's parameters from observed counts,
+//! with standard errors, profile-likelihood intervals, AIC/BIC and goodness of fit.
+//!
+//! The law is the verified rule normalised over k ≥ k_min (`law`); the log-likelihood is
+//! summed over distinct k (`likelihood.rs`); `maximise.rs` finds the maximum and says in
+//! words when there is none; `profile.rs` gives the errors and intervals; `gof.rs` the
+//! chi-square test and the Kolmogorov–Smirnov distance; `bootstrap.rs` the distance's
+//! parametric-bootstrap p-value.
+
+pub mod bootstrap;
+pub mod gof;
+pub mod likelihood;
+pub mod maximise;
+pub mod optimise;
+pub mod profile;
+
+use std::collections::BTreeMap;
+
+use crate::algebra::Q;
+use crate::data::Counts;
+use crate::law::{LawFamily, TotalRoute};
+use crate::model::Problem;
+
+pub use bootstrap::Bootstrap;
+pub use gof::{Bin, ChiSquare};
+pub use likelihood::{FreeParam, Likelihood};
+pub use maximise::{NoMaximum, HESSIAN_STEP};
+pub use profile::{End, Interval};
+
+/// What to fit and how.
+#[derive(Clone, Debug, Default)]
+pub struct FitRequest {
+    /// Leave out k < k_min and renormalise over k ≥ k_min (default: the base index).
+    pub k_min: Option<i64>,
+    /// Parameters held at given values (`--param`).
+    pub fixed: BTreeMap<String, Q>,
+    /// Bootstrap replicates of the KS distance (0: none).
+    pub bootstrap: usize,
+    pub seed: u64,
+    /// Show a progress bar on a terminal.
+    pub progress: bool,
+    /// Only the estimates and standard errors (no intervals, no goodness of fit): for
+    /// simulation studies.
+    pub estimates_only: bool,
+}
+
+/// One estimated parameter.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Estimate {
+    pub name: String,
+    pub integer: bool,
+    pub value: f64,
+    /// From the observed information; None for an integer parameter.
+    pub standard_error: Option<f64>,
+    /// The central-difference step used for it.
+    pub step: Option<f64>,
+    /// None with `estimates_only`.
+    pub interval: Option<Interval>,
+}
+
+/// A successful fit.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Fitted {
+    pub estimates: Vec<Estimate>,
+    pub log_likelihood: f64,
+    pub aic: f64,
+    pub bic: f64,
+    pub total_route: TotalRoute,
+    /// None with `estimates_only`.
+    pub chi_square: Option<ChiSquare>,
+    pub ks_distance: Option<f64>,
+    pub bootstrap: Option<Result<Bootstrap, String>>,
+}
+
+/// A fit that found no estimate, in words.
+#[derive(Clone, Debug, PartialEq)]
+pub enum FitFailure {
+    NoData(String),
+    NotALaw(String),
+    Boundary(String),
+    Flat(String),
+}
+
+impl FitFailure {
+    pub fn message(&self) -> &str {
+        match self {
+            FitFailure::NoData(m)
+            | FitFailure::NotALaw(m)
+            | FitFailure::Boundary(m)
+            | FitFailure::Flat(m) => m,
+        }
+    }
+
+    pub fn kind(&self) -> &'static str {
+        match self {
+            FitFailure::NoData(_) => "no_data",
+            FitFailure::NotALaw(_) => "not_a_law",
+            FitFailure::Boundary(_) => "boundary_maximum",
+            FitFailure::Flat(_) => "flat_likelihood",
+        }
+    }
+}
+
+/// Everything `fit` reports for one model.
+#[derive(Clone, Debug, PartialEq)]
+pub struct FitReport {
+    pub k_min: i64,
+    /// Observations used (k ≥ k_min) and left out.
+    pub observations: u64,
+    pub left_out: u64,
+    pub distinct: usize,
+    pub fixed: BTreeMap<String, Q>,
+    pub free: Vec<String>,
+    pub outcome: Result<Fitted, FitFailure>,
+}
+
+/// Fits `problem` to `counts`.
+pub fn fit(problem: &Problem, counts: &Counts, request: &FitRequest) -> FitReport {
+    let free: Vec<FreeParam> = problem
+        .params
+        .iter()
+        .filter(|p| !request.fixed.contains_key(&p.name))
+        .map(FreeParam::new)
+        .collect();
+    let mut report = FitReport {
+        k_min: request.k_min.unwrap_or(0),
+        observations: 0,
+        left_out: 0,
+        distinct: 0,
+        fixed: request.fixed.clone(),
+        free: free.iter().map(|p| p.name.clone()).collect(),
+        outcome: Err(FitFailure::NoData(String::new())),
+    };
+    let family = match LawFamily::new(problem, request.k_min) {
+        Ok(f) => f,
+        Err(e) => {
+            report.outcome = Err(FitFailure::NotALaw(e.message().to_string()));
+            return report;
+        }
+    };
+    report.k_min = family.k_min;
+    let (kept, left_out) = counts.at_least(family.k_min);
+    report.observations = kept.total();
+    report.left_out = left_out;
+    report.distinct = kept.by_k.len();
+    if left_out > 0 && request.k_min.is_none() {
+        report.outcome = Err(FitFailure::NoData(format!(
+            "{left_out} of the {} observations lie below the support (k < {}), where the law gives probability 0; leave them out with --k-min {} or check the data",
+            counts.total(),
+            family.k_min,
+            family.k_min
+        )));
+        return report;
+    }
+    if kept.total() == 0 {
+        report.outcome = Err(FitFailure::NoData(format!(
+            "no observation lies in the support k ≥ {}",
+            family.k_min
+        )));
+        return report;
+    }
+    let like = Likelihood::new(family, kept, request.fixed.clone(), free);
+    report.outcome = fit_likelihood(problem, &like, request);
+    report
+}
+
+fn fit_likelihood(
+    problem: &Problem,
+    like: &Likelihood,
+    request: &FitRequest,
+) -> Result<Fitted, FitFailure> {
+    let maximum = maximise::maximise(like, None).map_err(|e| match e {
+        NoMaximum::Nowhere => nowhere(like),
+        NoMaximum::Boundary { param, towards } => FitFailure::Boundary(format!(
+            "the likelihood keeps increasing as {towards}, the end of the declared range of {param}: there is no maximum inside the range, so no estimate is given"
+        )),
+    })?;
+    let theta = maximum.theta.clone();
+    let best = maximum.log_likelihood;
+    let law = like
+        .law(&theta)
+        .map_err(|e| FitFailure::NotALaw(e.message().to_string()))?;
+    let real: Vec<usize> = (0..like.free.len())
+        .filter(|i| !like.free[*i].integer)
+        .collect();
+    let (errors, steps) = profile::standard_errors(like, &real, &theta).ok_or_else(|| {
+        let names: Vec<&str> = real.iter().map(|i| like.free[*i].name.as_str()).collect();
+        FitFailure::Flat(format!(
+            "the likelihood is flat near its best point (the observed information of {} is not positive definite): these data do not determine the parameters, so no estimate is given",
+            names.join(", ")
+        ))
+    })?;
+    let mut estimates = Vec::new();
+    for (i, p) in like.free.iter().enumerate() {
+        let slot = real.iter().position(|r| *r == i);
+        let se = slot.map(|s| errors[s]);
+        let interval = (!request.estimates_only)
+            .then(|| profile::profile_interval(like, i, &theta, best, se.unwrap_or(1.0)));
+        estimates.push(Estimate {
+            name: p.name.clone(),
+            integer: p.integer,
+            value: theta[i],
+            standard_error: se,
+            step: slot.map(|s| steps[s]),
+            interval,
+        });
+    }
+    let m = like.free.len() as f64;
+    let full = !request.estimates_only;
+    let chi_square = full.then(|| gof::chi_square(&like.counts, &law, like.free.len()));
+    let ks_distance = full.then(|| gof::ks_distance(&like.counts, &law));
+    let bootstrap = ks_distance
+        .filter(|_| request.bootstrap > 0)
+        .map(|distance| {
+            bootstrap::bootstrap_ks(
+                problem,
+                like,
+                &theta,
+                distance,
+                request.bootstrap,
+                request.seed,
+                request.progress,
+            )
+        });
+    Ok(Fitted {
+        estimates,
+        log_likelihood: best,
+        aic: 2.0 * m - 2.0 * best,
+        bic: m * like.n.ln() - 2.0 * best,
+        total_route: law.route.clone(),
+        chi_square,
+        ks_distance,
+        bootstrap,
+    })
+}
+
+/// Why ℓ is −∞ everywhere: the law at a representative point, or the data.
+fn nowhere(like: &Likelihood) -> FitFailure {
+    let probe: Vec<f64> = like
+        .free
+        .iter()
+        .map(|p| {
+            if p.integer {
+                let (lo, hi) = p.integer_bounds();
+                lo.max(hi.min(1)) as f64
+            } else {
+                p.scale.to_param(0.0)
+            }
+        })
+        .collect();
+    match like.law(&probe) {
+        Err(e) => FitFailure::NotALaw(format!(
+            "the rule is not a normalisable probability law anywhere tried in the declared ranges (e.g. {})",
+            e.message()
+        )),
+        Ok(law) if like.beyond_support(&law) > 0 => FitFailure::NoData(format!(
+            "some observations lie beyond the law's finite support (k ≤ {}) for every parameter value tried",
+            law.last.unwrap_or(0)
+        )),
+        Ok(_) => FitFailure::NotALaw(
+            "the likelihood is undefined (−∞) everywhere tried in the declared ranges".into(),
+        ),
+    }
+}
+
+/// Several models fitted to the same data, best AIC first (failures last).
+pub fn rank_by_aic(reports: &mut [(String, FitReport)]) {
+    let aic = |r: &FitReport| r.outcome.as_ref().map_or(f64::INFINITY, |f| f.aic);
+    reports.sort_by(|a, b| aic(&a.1).total_cmp(&aic(&b.1)));
+}
