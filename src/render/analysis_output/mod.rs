@@ -125,6 +125,7 @@ fn finiteness_word(f: &Finiteness) -> String {
         Finiteness::Finite => "finite".into(),
         Finiteness::Infinite(why) => format!("infinite ({why})"),
         Finiteness::Undecided => "finite where the conditions below hold".into(),
+        Finiteness::Undefined(why) => format!("undefined ({why})"),
     }
 }
 
@@ -219,7 +220,10 @@ pub fn analysis_text(a: &Analysis) -> String {
 fn moment_text(name: &str, m: &Moment) -> String {
     let mut out = format!("{name:<13}{}\n", finiteness_word(&m.finiteness));
     if let Some((e, _)) = &m.closed_form {
-        if !matches!(m.finiteness, Finiteness::Infinite(_)) {
+        if !matches!(
+            m.finiteness,
+            Finiteness::Infinite(_) | Finiteness::Undefined(_)
+        ) {
             out += &format!("  closed form  {}\n", text::write(&expr_node(e)));
         }
     }
@@ -295,6 +299,7 @@ pub fn analysis_latex(a: &Analysis) -> String {
     ] {
         match (&m.finiteness, &m.closed_form) {
             (Finiteness::Infinite(_), _) => lines.push(format!("  {name}[{index}] &= \\infty")),
+            (Finiteness::Undefined(_), _) => {}
             (_, Some((e, _))) => lines.push(format!(
                 "  {name}[{index}] &= {}",
                 latex::write(&expr_node(e))
