@@ -14,6 +14,7 @@
 
 pub mod algebra;
 pub mod analysis;
+pub mod budget;
 pub mod check;
 pub mod closed_form;
 pub mod diagnostic;

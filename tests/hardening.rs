@@ -181,3 +181,31 @@ fn mutated_examples_answer_or_refuse() {
         }
     }
 }
+
+/// `table --check-all` over 10^7 rows at 50 digits ran for many minutes with no sign of life:
+/// it is refused before it starts, with the estimate and the way to proceed.
+#[test]
+fn work_beyond_the_budget_is_refused_with_the_estimate() {
+    let rule = "a(k)/a(k-1) = (k-1)/(k+5/2) for k >= 2";
+    let out = common::telescope(&[
+        "table",
+        rule,
+        "--k",
+        "1..10000000",
+        "--digits",
+        "50",
+        "--check-all",
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    let stderr = text(&out.stderr);
+    assert!(stderr.contains("10000000 rows at 50 digits"), "{stderr}");
+    assert!(stderr.contains("--max-seconds"), "{stderr}");
+    // A small budget refuses small work too; a large one admits it.
+    let tight = common::telescope(&["table", rule, "--k", "1..2000", "--max-seconds", "0.001"]);
+    assert_eq!(tight.status.code(), Some(2));
+    let ok = common::telescope(&["table", rule, "--k", "1..20", "--max-seconds", "1000"]);
+    assert_eq!(ok.status.code(), Some(0));
+    let solve = common::telescope(&["solve", rule, "--terms", "20", "--max-seconds", "0.000001"]);
+    assert_eq!(solve.status.code(), Some(2));
+    assert!(text(&solve.stderr).contains("20 tail corrections"));
+}
