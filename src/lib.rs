@@ -18,6 +18,7 @@ pub mod budget;
 pub mod check;
 pub mod closed_form;
 pub mod diagnostic;
+pub mod fuzzing;
 pub mod model;
 pub mod numeric;
 pub mod piecewise;
