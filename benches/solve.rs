@@ -29,5 +29,56 @@ fn solve_rules(c: &mut Criterion) {
     }
 }
 
-criterion_group!(benches, solve_rules);
+/// Conditions solved on the declared ranges: one parameter with a rational end (the citation
+/// variance), an irrational end (a cubic), and a linear solution in two parameters.
+fn solve_conditions(c: &mut Criterion) {
+    use telescope::analysis::{analyse, AnalysisRequest};
+    let rules = [
+        (
+            "rational_end",
+            "param rho in (0, 1)\nn(k)/n(k-1) = (1-rho)(k-1)/(1+(1-rho)k)",
+        ),
+        (
+            "cubic_end",
+            "param rho > 0\nx(k)/x(k-1) = (k + rho^3 - 2 rho)/(k + 4)",
+        ),
+        (
+            "linear_two_params",
+            "param nu > 0\nparam beta > 0\nx(k)/x(k-1) = (k - 1 + beta)/(k + nu)",
+        ),
+    ];
+    let request = AnalysisRequest {
+        terms: 0,
+        ..AnalysisRequest::default()
+    };
+    for (name, rule) in rules {
+        let problem = build_problem(rule).unwrap();
+        let solution = solve(&problem, &BTreeMap::new()).unwrap();
+        c.bench_function(&format!("conditions/{name}"), |b| {
+            b.iter(|| analyse(&problem, &solution, &request).unwrap())
+        });
+    }
+}
+
+/// The interval solver alone: the three conditions of the cubic rule above, together.
+fn split_cubic(c: &mut Criterion) {
+    use telescope::algebra::q;
+    use telescope::solve::inequality::split_univariate;
+    use telescope::solve::ranges::{Extended, Interval};
+    let range = Interval {
+        low: Extended::Finite(q(0, 1)),
+        low_included: false,
+        high: Extended::PlusInfinity,
+        high_included: false,
+    };
+    // 3 + 2ρ − ρ³ > 0, 2 + 2ρ − ρ³ > 0, 1 + 2ρ − ρ³ > 0
+    let f: Vec<_> = (1..=3)
+        .map(|c0| (vec![q(c0, 1), q(2, 1), q(0, 1), q(-1, 1)], vec![q(1, 1)]))
+        .collect();
+    c.bench_function("conditions/split_three_cubics", |b| {
+        b.iter(|| split_univariate("rho", false, &f, &range, 30))
+    });
+}
+
+criterion_group!(benches, solve_rules, solve_conditions, split_cubic);
 criterion_main!(benches);

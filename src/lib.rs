@@ -22,6 +22,7 @@ pub mod fuzzing;
 pub mod model;
 pub mod numeric;
 pub mod piecewise;
+pub mod probability;
 pub mod ratio;
 pub mod render;
 pub mod session;

@@ -9,6 +9,7 @@ use num_traits::ToPrimitive;
 use telescope::analysis::{analyse, AnalysisRequest};
 use telescope::budget::{self, Budget, Estimate};
 use telescope::piecewise::build_piecewise_table;
+use telescope::probability::{analyse_model, normalized_piecewise_table};
 use telescope::render;
 use telescope::session::{self, Error};
 use telescope::table::{build_normalized_table, build_table, TableRequest};
@@ -35,7 +36,7 @@ enum Command {
         /// A rule in quotes, a model file, or - for standard input.
         input: String,
         /// A parameter value, exact: NAME=3/10 or NAME=0.3 (repeatable).
-        #[arg(long = "param", value_name = "NAME=VALUE")]
+        #[arg(long = "param", value_name = "NAME=VALUE", allow_hyphen_values = true)]
         params: Vec<String>,
         #[arg(long, value_enum, default_value_t = SolveFormat::Text)]
         format: SolveFormat,
@@ -54,21 +55,25 @@ enum Command {
         /// Treat the sequence as a probability distribution: a(b) so that the total is 1.
         #[arg(long)]
         normalize: bool,
+        /// A probability under the normalised law: "k >= K", "k <= K", "K1 <= k <= K2",
+        /// "k = K", bounds in the parameters (repeatable).
+        #[arg(long = "prob", value_name = "EVENT", allow_hyphen_values = true)]
+        prob: Vec<String>,
     },
     /// Direct products next to the closed form, with their relative difference.
     Table {
         /// A rule in quotes, a model file, or - for standard input.
         input: String,
         /// The rows, A..B.
-        #[arg(long = "k", value_name = "A..B")]
+        #[arg(long = "k", value_name = "A..B", allow_hyphen_values = true)]
         k: String,
-        #[arg(long = "param", value_name = "NAME=VALUE")]
+        #[arg(long = "param", value_name = "NAME=VALUE", allow_hyphen_values = true)]
         params: Vec<String>,
         /// Significant digits of every printed value.
         #[arg(long, default_value_t = 30)]
         digits: u32,
         /// The base term's value a(b) (default: the model's boundary equation, else 1).
-        #[arg(long, value_name = "VALUE")]
+        #[arg(long, value_name = "VALUE", allow_hyphen_values = true)]
         base: Option<String>,
         /// Check the closed form on every row, not a log-spaced sample.
         #[arg(long)]
@@ -86,10 +91,10 @@ enum Command {
         /// The claimed a(k), e.g. "n(1) * (7/2) * Beta(k, 7/2)".
         #[arg(long, value_name = "EXPR", allow_hyphen_values = true)]
         claim: String,
-        #[arg(long = "param", value_name = "NAME=VALUE")]
+        #[arg(long = "param", value_name = "NAME=VALUE", allow_hyphen_values = true)]
         params: Vec<String>,
         /// The base term's value a(b) (default 1).
-        #[arg(long, value_name = "VALUE")]
+        #[arg(long, value_name = "VALUE", allow_hyphen_values = true)]
         base: Option<String>,
         /// Significant digits of the numeric comparison.
         #[arg(long, default_value_t = telescope::check::DEFAULT_DIGITS)]
@@ -149,6 +154,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             terms,
             digits,
             normalize,
+            prob,
         } => {
             if standalone && !matches!(format, SolveFormat::Latex) {
                 return Err(Error::Usage(
@@ -175,28 +181,49 @@ fn run(cli: Cli) -> Result<String, Error> {
                 budget,
                 &Estimate::solve(terms, free, numeric.then_some(digits)),
             )?;
+            if model.is_piecewise()
+                && telescope::piecewise::symbolic::has_symbolic_breakpoints(&model, &values)
+            {
+                if normalize {
+                    return Err(Error::Usage(
+                        "--normalize needs the breakpoints' values (--param c=…); without them solve gives the symbolic forms".into(),
+                    ));
+                }
+                let events = session::parse_events(&model, &prob)?;
+                let symbolic = telescope::piecewise::symbolic::solve_symbolic(&model, &values)
+                    .map_err(|diagnostic| Error::Input {
+                        input: input.clone(),
+                        diagnostic,
+                    })?;
+                return Ok(match format {
+                    SolveFormat::Text => {
+                        render::symbolic_output::symbolic_text(&model, &symbolic, &events)
+                    }
+                    SolveFormat::Latex => {
+                        render::symbolic_output::symbolic_latex(&symbolic, &events)
+                    }
+                    SolveFormat::Json => pretty(&render::symbolic_output::symbolic_json(
+                        &model, &symbolic, &events,
+                    )),
+                });
+            }
             let solved = session::run_solve_model(&input, &model, &values)?;
+            let events = session::parse_events(&model, &prob)?;
+            let probabilities = telescope::probability::probabilities(&solved, &events, digits);
             let to_error = |diagnostic| Error::Input {
                 input: input.clone(),
                 diagnostic,
             };
-            let (sum, analysis) = if model.is_piecewise() {
-                if normalize {
-                    return Err(Error::Usage(
-                        "--normalize is not available for piecewise models yet; without --normalize, solve prints the exact sum over the pieces".into(),
-                    ));
-                }
-                (session::model_sum(&model, &solved, digits)?, None)
+            let request = AnalysisRequest {
+                terms,
+                digits,
+                normalize,
+            };
+            let analysis = if model.is_piecewise() {
+                analyse_model(&solved, &request).map_err(to_error)?
             } else {
-                let request = AnalysisRequest {
-                    terms,
-                    digits,
-                    normalize,
-                };
                 let piece = &solved.pieces[0];
-                let analysis =
-                    analyse(&piece.problem, &piece.solution, &request).map_err(to_error)?;
-                (None, Some(analysis))
+                analyse(&piece.problem, &piece.solution, &request).map_err(to_error)?
             };
             let format = match format {
                 SolveFormat::Text => render::SolveFormat::Text,
@@ -204,9 +231,9 @@ fn run(cli: Cli) -> Result<String, Error> {
                 SolveFormat::Json => render::SolveFormat::Json,
             };
             let report = render::SolveReport {
-                sum: sum.as_ref(),
-                analysis: analysis.as_ref(),
+                analysis: Some(&analysis),
                 digits,
+                probabilities: &probabilities,
             };
             Ok(render::solve_report(
                 &model, &solved, &report, format, layout,
@@ -253,14 +280,13 @@ fn run(cli: Cli) -> Result<String, Error> {
                 diagnostic,
             };
             if normalize {
-                if model.is_piecewise() {
-                    return Err(Error::Usage(
-                        "--normalize is not available for piecewise tables yet".into(),
-                    ));
+                let table = if model.is_piecewise() {
+                    normalized_piecewise_table(&solved, &request, model.pieces[0].span.clone())
+                } else {
+                    let piece = &solved.pieces[0];
+                    build_normalized_table(&piece.problem, &piece.solution, &request)
                 }
-                let piece = &solved.pieces[0];
-                let table = build_normalized_table(&piece.problem, &piece.solution, &request)
-                    .map_err(to_error)?;
+                .map_err(to_error)?;
                 return Ok(match format {
                     TableFormat::Text => render::analysis_output::normalized_table_text(&table),
                     TableFormat::Csv => render::table_csv(&table.table),

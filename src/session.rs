@@ -10,9 +10,7 @@ use num_bigint::BigInt;
 use crate::algebra::{parse_q, Q};
 use crate::diagnostic::Diagnostic;
 use crate::model::{build_model, build_problem, Model, Param, Problem};
-use crate::piecewise::{
-    exact_terms, piecewise_sum, solve_model, ModelSolution, PiecewiseSum, TailSum,
-};
+use crate::piecewise::{solve_model, ModelSolution};
 use crate::solve::{solve, Solution};
 
 /// The text of an input and the name to show in messages.
@@ -226,82 +224,24 @@ pub fn base_value(
     }
 }
 
-/// The sum over the support of a piecewise model, in units of the base term (or with the
-/// boundary equation's value), when every parameter has a value; `None` otherwise.
-pub fn model_sum(
+/// `--prob` events, read against the model's index and parameters; messages point into the
+/// event text.
+pub fn parse_events(
     model: &Model,
-    solved: &ModelSolution,
-    digits: u32,
-) -> Result<Option<PiecewiseSum>, Error> {
-    if model
-        .params
+    texts: &[String],
+) -> Result<Vec<crate::probability::Event>, Error> {
+    texts
         .iter()
-        .any(|p| !solved.values.contains_key(&p.name))
-    {
-        return Ok(None);
-    }
-    let base = base_value(model, &solved.values, None)?;
-    let mut sum = piecewise_sum(solved, &base)
-        .map_err(|e| Error::Usage(format!("the sum over the pieces cannot be formed: {e:?}")))?;
-    if sum.tail == TailSum::NotGeometric {
-        sum.tail = numeric_tail(solved, &base, &sum, digits)?;
-    }
-    Ok(Some(sum))
-}
-
-/// The last piece's tail Σ_{k > b'} a(k) = a(b')·(S − 1), with S = Σ_{k ≥ b'} a(k)/a(b') summed
-/// by the analysis layer (closed form or numeric with an error bound) for the last piece alone.
-fn numeric_tail(
-    solved: &ModelSolution,
-    base: &Q,
-    sum: &PiecewiseSum,
-    digits: u32,
-) -> Result<TailSum, Error> {
-    use crate::analysis::{analyse, AnalysisRequest, Finiteness};
-    use crate::numeric::{decimal, to_rug_rational};
-    use rug::ops::Pow;
-    use rug::Float;
-
-    let piece = solved.tail_piece();
-    let request = AnalysisRequest {
-        terms: 2,
-        digits,
-        normalize: false,
-    };
-    let analysis = analyse(&piece.problem, &piece.solution, &request)
-        .map_err(|d| Error::Usage(format!("the last piece cannot be summed: {}", d.message)))?;
-    let normalization = &analysis.normalization;
-    if let Finiteness::Infinite(_) = normalization.finiteness {
-        return Ok(TailSum::Divergent);
-    }
-    let Some(total_of_piece) = &normalization.value else {
-        return Ok(TailSum::NotGeometric);
-    };
-    let start = exact_terms(solved, base, &piece.problem.base_index())
-        .ok()
-        .and_then(|terms| terms.last().cloned());
-    let Some(start) = start else {
-        return Ok(TailSum::NotGeometric);
-    };
-    let prec = crate::numeric::bits_for_digits(digits) + 64;
-    let parse = |s: &str| Float::parse(s).ok().map(|p| Float::with_val(prec, p));
-    let (Some(s), Some(bound)) = (
-        parse(&total_of_piece.value),
-        parse(&total_of_piece.error_bound),
-    ) else {
-        return Ok(TailSum::NotGeometric);
-    };
-    let start = Float::with_val(prec, to_rug_rational(&start));
-    let tail = Float::with_val(prec, &s - 1u32) * &start;
-    let total = Float::with_val(prec, &tail + to_rug_rational(&sum.finite_part));
-    // The printed S carries its own rounding to `digits` digits besides the sum's bound.
-    let rounding =
-        Float::with_val(prec, s.abs_ref()) * Float::with_val(prec, 10).pow(1 - digits as i32);
-    let error = (bound + rounding) * start.abs();
-    Ok(TailSum::Numeric {
-        tail: decimal::float_to_decimal(&tail, digits),
-        total: decimal::float_to_decimal(&total, digits),
-        error_bound: decimal::short(&error),
-        method: total_of_piece.method.clone(),
-    })
+        .map(|text| {
+            crate::probability::parse_event(text, &model.index, &model.params).map_err(
+                |diagnostic| Error::Input {
+                    input: Input {
+                        name: "--prob".into(),
+                        text: text.clone(),
+                    },
+                    diagnostic,
+                },
+            )
+        })
+        .collect()
 }

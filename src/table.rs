@@ -404,6 +404,19 @@ pub fn build_normalized_table(
 ) -> Result<NormalizedTable, Diagnostic> {
     let (base, method) =
         crate::analysis::normalizing_base_value(problem, solution, request.digits)?;
+    normalized_table_with(&base, method, request, |r| {
+        build_table(problem, solution, r)
+    })
+}
+
+/// The table built by `build` from a(b) = `base` (1/total, with its bound), and the checks of
+/// a normalised table: the printed rows added up, with the rounding they carry.
+pub fn normalized_table_with(
+    base: &crate::analysis::Bounded,
+    method: String,
+    request: &TableRequest,
+    build: impl FnOnce(&TableRequest) -> Result<Table, Diagnostic>,
+) -> Result<NormalizedTable, Diagnostic> {
     // The binary value is an exact rational: the table's running product starts from it.
     let base_q: Rational = match &base.exact {
         Some(q) => q.clone(),
@@ -412,7 +425,7 @@ pub fn build_normalized_table(
     let base_value = Q::new(to_bigint(base_q.numer()), to_bigint(base_q.denom()));
     let mut normalized_request = request.clone();
     normalized_request.base_value = base_value;
-    let table = build_table(problem, solution, &normalized_request)?;
+    let table = build(&normalized_request)?;
     let mut rows_sum = Rational::new();
     let mut rounding = Float::new(64);
     for row in &table.rows {

@@ -440,7 +440,7 @@ fn analysis_sections_of_every_example() {
     for path in files {
         let name = path.file_stem().unwrap().to_string_lossy().into_owned();
         let text = std::fs::read_to_string(&path).unwrap();
-        // Piecewise models get the exact sum over their pieces instead (tests/models.rs).
+        // Piecewise and finite models are analysed as a whole (tests/snapshots.rs, models.rs).
         if telescope::model::build_model(&text).unwrap().is_piecewise() {
             continue;
         }

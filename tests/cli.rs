@@ -228,14 +228,30 @@ fn a_missing_model_file_is_reported_as_missing() {
 }
 
 #[test]
-fn normalize_on_a_piecewise_model_says_what_to_do_instead() {
-    // The message used to say the exact sum "is printed instead", but nothing is printed.
-    let args = ["solve", "examples/repair_counter.rule", "--param", "c=3"];
-    let o = telescope(&[&args[..], &["--normalize"]].concat());
-    assert_eq!(o.status.code(), Some(2));
-    assert!(stdout(&o).is_empty());
-    assert!(!stderr(&o).contains("is printed instead"), "{}", stderr(&o));
-    assert!(stderr(&o).contains("without --normalize"), "{}", stderr(&o));
+fn normalize_on_a_piecewise_model_gives_the_base_term_and_the_normalised_prefactor() {
+    // M/M/3 with offered load 2: total 9·p(0) (Erlang C's denominator, Kleinrock 1975,
+    // eq. 3.39), so p(0) = 1/9 and C = p(0)·c^c/c! = (1/9)·27/6 = 1/2.
+    let o = telescope(&[
+        "solve",
+        "examples/repair_counter.rule",
+        "--param",
+        "c=3",
+        "--param",
+        "lambda=2",
+        "--param",
+        "mu=1",
+        "--normalize",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["normalization"]["base_value"]["exact"], "1/9");
+    assert_eq!(v["tail"]["prefactor_normalized"], true);
+    assert_eq!(
+        v["tail"]["prefactor"]["value"],
+        "0.500000000000000000000000000000"
+    );
 }
 
 #[test]
@@ -252,4 +268,75 @@ fn a_table_too_far_out_points_to_something_that_exists() {
     assert_eq!(o.status.code(), Some(2));
     assert!(!stderr(&o).contains("single values"), "{}", stderr(&o));
     assert!(stderr(&o).contains("tail law"), "{}", stderr(&o));
+}
+
+#[test]
+fn a_k_range_below_zero_reaches_the_tool_and_gets_its_message() {
+    // Issue 14: `table RULE --k -1..99` was refused by the argument parser.
+    let o = telescope(&["table", GROWTH, "--param", "rho=3/10", "--k", "-1..99"]);
+    assert_eq!(o.status.code(), Some(2), "{}", stdout(&o));
+    let err = stderr(&o);
+    assert!(!err.contains("unexpected argument"), "{err}");
+    assert!(
+        err.contains("the table starts at k = -1 but the sequence starts at its base term k = 1"),
+        "{err}"
+    );
+    assert!(err.contains("use --k 1..99"), "{err}");
+    // A rule whose support starts below zero takes the negative range.
+    let o = telescope(&["table", "(k + 5)/(k + 9) for k >= -3", "--k", "-4..2"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+}
+
+#[test]
+fn negative_values_are_accepted_for_param_base_and_claim() {
+    let o = telescope(&[
+        "table",
+        "p(k)/p(k-1) = (k + a)/k",
+        "--param",
+        "a=-1/2",
+        "--base",
+        "-2",
+        "--k",
+        "1..3",
+        "--format",
+        "csv",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    // p(2) = −2·(2 − 1/2)/2 = −3/2 (by hand from the rule).
+    assert!(stdout(&o).contains("\n2,-1.5"), "{}", stdout(&o));
+    let o = telescope(&[
+        "check",
+        "p(k)/p(k-1) = -1",
+        "--claim",
+        "-(-1)^(k - 1)",
+        "--base",
+        "-1",
+    ]);
+    assert!(o.status.success(), "{}{}", stdout(&o), stderr(&o));
+}
+
+#[test]
+fn a_bare_ratio_may_name_a_parameter_like_the_default_sequence() {
+    // Issue 14's input: `a` is a parameter here, so the sequence takes the first free name.
+    let o = telescope(&[
+        "solve",
+        "z (k + a)(k + b)/((k + c)(k + 1)) for k >= 1",
+        "--param",
+        "a=2/3",
+        "--param",
+        "b=1/2",
+        "--param",
+        "c=5/2",
+        "--param",
+        "z=1/2",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let out = stdout(&o);
+    assert!(out.contains("u(k)/u(k − 1) = z·(k + a)·(k + b)"), "{out}");
+    // Σ_{k≥0} u(k)/u(0) = ₃F₂(5/3, 3/2, 1; 7/2, 2; 1/2) = 1.2419686152926318781303598149…
+    // (mpmath 1.3.0, hyp3f2 at 40 digits).
+    assert!(out.contains("1.24196861529263187813035981494"), "{out}");
+    // A bare ratio that does not use `a` keeps the usual name.
+    let o = telescope(&["solve", "(k + b)/(k + 1)"]);
+    assert!(stdout(&o).contains("a(k)/a(k − 1)"), "{}", stdout(&o));
 }

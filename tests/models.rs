@@ -14,8 +14,7 @@ use telescope::model::{build_model, Assumption, Model, RuleSource};
 use telescope::numeric::rational_to_decimal;
 use telescope::numeric::to_rug_rational;
 use telescope::piecewise::{
-    build_piecewise_table, exact_terms, piecewise_sum, solve_model, ModelSolution,
-    PiecewiseEvaluator, TailSum,
+    build_piecewise_table, exact_terms, solve_model, ModelSolution, PiecewiseEvaluator,
 };
 use telescope::solve::SupportEnd;
 use telescope::table::TableRequest;
@@ -225,14 +224,12 @@ fn multi_server_queue_reproduces_erlang_c() {
         let (_, s) = solved(DESK, &vals);
         assert_eq!(s.pieces.len(), 2);
         assert_eq!(s.breakpoints(), vec![BigInt::from(c)]);
-        let sum = piecewise_sum(&s, &Q::one()).unwrap();
-        let TailSum::Exact(tail) = &sum.tail else {
-            panic!("the M/M/c tail is geometric: {:?}", sum.tail)
-        };
-        let total = sum.total().unwrap();
+        let law = telescope::probability::Law::new(&s, 30);
+        let event = telescope::probability::parse_event("k >= c", "k", &s.pieces[0].problem.params)
+            .unwrap();
+        let p = law.probability(&event).value.unwrap();
         let terms = exact_terms(&s, &Q::one(), &BigInt::from(c)).unwrap();
-        // Σ_{k ≥ c} p(k) = p(c) + tail (the tail piece holds for k > c)
-        let waiting = (&terms[c as usize] + tail) / &total;
+        let waiting: Q = telescope::algebra::parse_q(p.exact.as_deref().unwrap()).unwrap();
         let a = &lambda / &mu;
         let expected = erlang_c(c, &a);
         assert_eq!(waiting, expected, "c = {c}, a = {a}");
@@ -411,14 +408,18 @@ fn the_piecewise_sum_is_the_finite_part_plus_the_geometric_tail() {
     ]);
     let out = String::from_utf8_lossy(&o.stdout);
     assert!(
-        out.contains("Σ p(k) = 19/3 (k ≤ 3) + 8/3 (last piece) = 9, in units of p(0)"),
+        out.contains(
+            "parts      19/3 (up to the last breakpoint) + 8/3 (last piece), with p(0) = 1"
+        ),
         "{out}"
     );
+    assert!(out.contains("= 9 exactly with p(0) = 1"), "{out}");
 }
 
 #[test]
 fn piecewise_models_need_their_breakpoint_and_consecutive_ranges() {
-    let o = telescope(&["solve", "examples/repair_counter.rule"]);
+    // A table needs numbers; solve gives the symbolic forms instead (tests/probability.rs).
+    let o = telescope(&["table", "examples/repair_counter.rule", "--k", "0..5"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&o.stderr).contains("--param c="));
     let gap = "a(k)/a(k-1) = 2/k for 1 <= k <= 3\na(k)/a(k-1) = 1/2 for k > 4";
@@ -459,8 +460,30 @@ fn a_power_law_last_piece_is_summed_by_the_analysis() {
     ]);
     assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
-    assert_eq!(v["sum"]["finite_part"], "15/8");
-    assert_eq!(v["sum"]["tail"], "numeric");
-    assert_eq!(v["sum"]["total"], "2.12500000000000000000000000000");
-    assert_eq!(v["sum"]["tail_part"], "0.250000000000000000000000000000");
+    let n = &v["normalization"];
+    assert_eq!(n["parts"]["finite_part"], "15/8");
+    // The tail's series has a rational closed form (Gauss), so everything stays exact.
+    assert_eq!(n["parts"]["tail_part"], "1/4");
+    assert_eq!(n["exact"], "17/8");
+    assert_eq!(n["value"], "2.12500000000000000000000000000");
+    assert!(n["method"].as_str().unwrap().contains("Gauss"));
+}
+
+#[test]
+fn a_bare_ratio_takes_a_sequence_name_its_parameters_leave_free() {
+    // Issue 14: `a` without an index argument is a parameter of a bare ratio.
+    let m = model("z (k + a)(k + b)/((k + c)(k + 1)) for k >= 1");
+    assert_eq!(m.sequence, "u");
+    assert!(m.params.iter().any(|p| p.name == "a"));
+    // A declared parameter counts as used too, wherever the declaration stands.
+    let m = model("(k + 1)/(k + 2)\nparam a > 0\nparam u > 0");
+    assert_eq!(m.sequence, "v");
+    // The sequence written with its index inside its own ratio is still refused.
+    let err = build_model("(k + 1)/(k + a(k))").unwrap_err();
+    assert!(
+        err.message.contains("cannot appear inside its own ratio"),
+        "{}",
+        err.message
+    );
+    assert_eq!(model("(k + 1)/(k + 2)").sequence, "a");
 }

@@ -60,20 +60,22 @@ fn every_example_renders_in_every_format() {
     }
 }
 
-/// A piecewise example solved with every integer breakpoint parameter set to 3.
+/// A piecewise example solved with every integer breakpoint parameter set to 3, rendered as
+/// `telescope solve` prints it (pieces, then the whole model's analysis).
 fn piecewise_snapshots(name: &str, model: &telescope::model::Model) {
     let values = breakpoint_values(model);
     let solved = solve_model(model, &values).unwrap_or_else(|e| panic!("{name}: {e}"));
-    insta::assert_snapshot!(
-        format!("{name}_text"),
-        render::piecewise_text(model, &solved, None)
-    );
-    insta::assert_snapshot!(
-        format!("{name}_latex"),
-        render::piecewise_latex(model, &solved)
-    );
-    insta::assert_json_snapshot!(
-        format!("{name}_json"),
-        render::piecewise_json(model, &solved, None)
-    );
+    let analysis = telescope::probability::analyse_model(&solved, &Default::default())
+        .unwrap_or_else(|e| panic!("{name}: {e:?}"));
+    let report = render::SolveReport {
+        analysis: Some(&analysis),
+        digits: 30,
+        probabilities: &[],
+    };
+    let layout = render::SolveLayout::default();
+    let out = |format| render::solve_report(model, &solved, &report, format, layout);
+    insta::assert_snapshot!(format!("{name}_text"), out(render::SolveFormat::Text));
+    insta::assert_snapshot!(format!("{name}_latex"), out(render::SolveFormat::Latex));
+    let json: serde_json::Value = serde_json::from_str(&out(render::SolveFormat::Json)).unwrap();
+    insta::assert_json_snapshot!(format!("{name}_json"), json);
 }

@@ -1,12 +1,17 @@
 //! Convergence and finiteness conditions as inequalities in the parameters, decided from
-//! `--param` values or, where they settle it, from the declared ranges.
+//! `--param` values or from the declared ranges: in one parameter solved exactly into the
+//! intervals where they hold, in several proved from the box of ranges or solved for a
+//! parameter in which they are linear (`solve::inequality`).
 
 use std::collections::BTreeMap;
 
-use num_traits::{Signed, Zero};
+use num_traits::{One, Signed, Zero};
 
 use crate::algebra::{RatFunc, Q};
 use crate::model::Param;
+use crate::solve::box_sign::{box_sign, BoxSign};
+use crate::solve::inequality::{solve_linear, split_univariate_open, LinearSolution, Split};
+use crate::solve::ranges::Interval;
 
 /// One inequality in the parameters.
 #[derive(Clone, Debug, PartialEq)]
@@ -26,6 +31,15 @@ pub enum Verdict {
     Undecided,
 }
 
+/// Where an inequality holds when the ranges leave it open.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Region {
+    /// One parameter: the intervals of its declared range where it holds and where it fails.
+    Intervals(Split),
+    /// Several parameters: solved for one in which it is linear, the others remaining.
+    Linear(LinearSolution),
+}
+
 /// An inequality, what it guarantees, and whether it holds here.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Requirement {
@@ -33,20 +47,25 @@ pub struct Requirement {
     /// What it is for, in words ("the total converges").
     pub purpose: String,
     pub verdict: Verdict,
+    /// Where it holds, when the verdict is undecided and that can be said exactly.
+    pub region: Option<Region>,
 }
 
 impl Requirement {
+    /// `digits`: the decimals of irrational ends of `region`.
     pub fn new(
         inequality: Inequality,
         purpose: &str,
         values: &BTreeMap<String, Q>,
         params: &[Param],
+        digits: u32,
     ) -> Requirement {
-        let verdict = decide(&inequality, values, params);
+        let (verdict, region) = decide_with_region(&inequality, values, params, digits);
         Requirement {
             inequality,
             purpose: purpose.to_string(),
             verdict,
+            region,
         }
     }
 
@@ -75,139 +94,174 @@ fn failure(expr: &RatFunc, value: &Q, values: &BTreeMap<String, Q>) -> String {
 }
 
 pub fn decide(ineq: &Inequality, values: &BTreeMap<String, Q>, params: &[Param]) -> Verdict {
+    decide_with_region(ineq, values, params, DEFAULT_DIGITS).0
+}
+
+/// Digits of irrational interval ends when no `--digits` is at hand.
+const DEFAULT_DIGITS: u32 = 30;
+
+/// The inequality as `f > 0` conditions (|r| < 1 is 1 − r > 0 and 1 + r > 0), each with
+/// whether its zeros are open: |r| = 1 fails the inequality, yet whether the sum converges
+/// there depends on the power of k, which this inequality does not see.
+fn as_positive(ineq: &Inequality) -> Vec<(RatFunc, bool)> {
+    let one = RatFunc::one();
     match ineq {
-        Inequality::Never(why) => Verdict::Fails(why.clone()),
-        Inequality::Positive(expr) => match expr.eval(values) {
-            Ok(v) if v.is_positive() => Verdict::Holds(settled_by(expr, values)),
-            Ok(v) => Verdict::Fails(failure(expr, &v, values)),
-            Err(_) => match sign_from_ranges(expr, params) {
-                Some(true) => Verdict::Holds("the declared ranges".into()),
-                Some(false) => Verdict::Fails("the declared ranges make it ≤ 0".into()),
-                None => Verdict::Undecided,
-            },
-        },
-        Inequality::AbsBelowOne(expr) => match expr.eval(values) {
-            Ok(v) if v.abs() < Q::from_integer(1.into()) => {
-                Verdict::Holds(settled_by(expr, values))
-            }
-            Ok(v) => Verdict::Fails(failure(expr, &v, values)),
-            Err(_) => {
-                let one = RatFunc::one();
-                let below = sign_from_ranges(&(&one - expr), params);
-                let above = sign_from_ranges(&(&one + expr), params);
-                match (below, above) {
-                    (Some(true), Some(true)) => Verdict::Holds("the declared ranges".into()),
-                    (Some(false), _) | (_, Some(false)) => {
-                        Verdict::Fails("the declared ranges make it ≥ 1".into())
-                    }
-                    _ => Verdict::Undecided,
-                }
-            }
-        },
+        Inequality::Never(_) => Vec::new(),
+        Inequality::Positive(expr) => vec![(expr.clone(), false)],
+        Inequality::AbsBelowOne(expr) => vec![(&one - expr, true), (&one + expr, true)],
     }
 }
 
-/// An end of an interval: a value and whether it is attained.
-#[derive(Clone, Debug)]
-struct End {
-    value: Q,
-    attained: bool,
+/// The conditions with the values substituted; `None` when a value divides by zero.
+fn substituted(
+    conditions: Vec<(RatFunc, bool)>,
+    values: &BTreeMap<String, Q>,
+) -> Option<Vec<(RatFunc, bool)>> {
+    conditions
+        .into_iter()
+        .map(|(f, open)| f.eval_partial(values).ok().map(|f| (f, open)))
+        .collect()
 }
 
-/// Whether `expr > 0` everywhere (`Some(true)`) or nowhere (`Some(false)`) on the box of
-/// declared ranges, for numerators and denominators affine in the parameters; `None` when
-/// that is not settled this way.
-fn sign_from_ranges(expr: &RatFunc, params: &[Param]) -> Option<bool> {
-    let num = affine_range(expr.numer(), params)?;
-    let den = affine_range(expr.denom(), params)?;
-    let (num, den) = (sign_of(&num)?, sign_of(&den)?);
-    use Sign::*;
-    match (num, den) {
-        (Positive, Positive) | (Negative, Negative) => Some(true),
-        (Positive | Negative, _) if den == NonPositive => None,
-        (Negative | NonPositive, Positive) => Some(false),
-        (Positive, Negative) => Some(false),
+/// The verdict, and where the inequality holds when the ranges leave it open.
+fn decide_with_region(
+    ineq: &Inequality,
+    values: &BTreeMap<String, Q>,
+    params: &[Param],
+    digits: u32,
+) -> (Verdict, Option<Region>) {
+    let expr = match ineq {
+        Inequality::Never(why) => return (Verdict::Fails(why.clone()), None),
+        Inequality::Positive(expr) | Inequality::AbsBelowOne(expr) => expr,
+    };
+    if let Ok(v) = expr.eval(values) {
+        let holds = match ineq {
+            Inequality::Positive(_) => v.is_positive(),
+            _ => v.abs() < Q::one(),
+        };
+        let verdict = if holds {
+            Verdict::Holds(settled_by(expr, values))
+        } else {
+            Verdict::Fails(failure(expr, &v, values))
+        };
+        return (verdict, None);
+    }
+    let Some(conditions) = substituted(as_positive(ineq), values) else {
+        return (Verdict::Undecided, None);
+    };
+    let fails = match ineq {
+        Inequality::Positive(_) => "the declared ranges make it ≤ 0",
+        _ => "the declared ranges make it ≥ 1",
+    };
+    if let Some(split) = split_of(&conditions, params, digits) {
+        return match split.everywhere() {
+            Some(true) => (Verdict::Holds("the declared ranges".into()), None),
+            Some(false) => (Verdict::Fails(fails.into()), None),
+            None => (Verdict::Undecided, Some(Region::Intervals(split))),
+        };
+    }
+    // Several parameters: a sign proven on the box of ranges, else solve for one of them.
+    let signs: Vec<Option<BoxSign>> = conditions
+        .iter()
+        .map(|(f, _)| box_sign(f, params))
+        .collect();
+    if signs.iter().all(|s| *s == Some(BoxSign::Positive)) {
+        return (Verdict::Holds("the declared ranges".into()), None);
+    }
+    if signs
+        .iter()
+        .any(|s| matches!(s, Some(BoxSign::Negative | BoxSign::NonPositive)))
+    {
+        return (Verdict::Fails(fails.into()), None);
+    }
+    let region = match conditions.as_slice() {
+        [(only, _)] => solve_linear(only, params).map(Region::Linear),
         _ => None,
-    }
+    };
+    (Verdict::Undecided, region)
 }
 
-#[derive(Clone, Copy, Debug, PartialEq)]
-enum Sign {
-    /// > 0 everywhere
-    Positive,
-    /// < 0 everywhere
-    Negative,
-    /// ≤ 0 everywhere
-    NonPositive,
-}
-
-fn sign_of(r: &(Option<End>, Option<End>)) -> Option<Sign> {
-    if let Some(lo) = &r.0 {
-        if lo.value.is_positive() || (lo.value.is_zero() && !lo.attained) {
-            return Some(Sign::Positive);
+/// Several linear solutions `x > b_i` (or all `x < b_i`) whose bounds differ by numbers: the
+/// conjunction is the one with the largest (smallest) bound.
+fn strongest_linear(open: &[&Requirement]) -> Option<LinearSolution> {
+    let solutions: Vec<&LinearSolution> = open
+        .iter()
+        .map(|r| match &r.region {
+            Some(Region::Linear(l)) => Some(l),
+            _ => None,
+        })
+        .collect::<Option<_>>()?;
+    let first = solutions[0];
+    let mut best = first;
+    for l in &solutions[1..] {
+        if l.param != first.param || l.greater != first.greater {
+            return None;
+        }
+        let gap = (&l.bound - &best.bound).as_constant()?;
+        if gap.is_positive() == first.greater && !gap.is_zero() {
+            best = l;
         }
     }
-    if let Some(hi) = &r.1 {
-        if hi.value.is_negative() || (hi.value.is_zero() && !hi.attained) {
-            return Some(Sign::Negative);
-        }
-        if hi.value.is_zero() {
-            return Some(Sign::NonPositive);
-        }
-    }
-    None
+    Some(best.clone())
 }
 
-/// The range of an affine polynomial over the declared box: (lower end, upper end), `None`
-/// for an unbounded side; `None` overall when the polynomial is not affine.
-fn affine_range(p: &crate::algebra::Poly, params: &[Param]) -> Option<(Option<End>, Option<End>)> {
-    if p.total_degree() > 1 {
+/// The conjunction `f_i > 0` solved exactly when every `f_i` is in the same one parameter.
+fn split_of(conditions: &[(RatFunc, bool)], params: &[Param], digits: u32) -> Option<Split> {
+    let mut variables = conditions.iter().flat_map(|(f, _)| f.variables());
+    let name = variables.next()?;
+    if variables.any(|v| v != name) {
         return None;
     }
-    let mut lo = Some(End {
-        value: Q::zero(),
-        attained: true,
-    });
-    let mut hi = lo.clone();
-    for (monomial, c) in p.terms() {
-        let vars: Vec<(&str, u32)> = monomial.factors().collect();
-        if vars.is_empty() {
-            lo = lo.map(|e| End {
-                value: e.value + c,
-                attained: e.attained,
-            });
-            hi = hi.map(|e| End {
-                value: e.value + c,
-                attained: e.attained,
-            });
-            continue;
-        }
-        let name = vars[0].0;
-        let param = params.iter().find(|p| p.name == name)?;
-        let lower = param.lower.clone().map(|(v, closed)| End {
-            value: v,
-            attained: closed,
-        });
-        let upper = param.upper.clone().map(|(v, closed)| End {
-            value: v,
-            attained: closed,
-        });
-        let (for_lo, for_hi) = if c.is_positive() {
-            (lower, upper)
-        } else {
-            (upper, lower)
-        };
-        let add = |acc: Option<End>, end: Option<End>| -> Option<End> {
-            let (a, e) = (acc?, end?);
-            Some(End {
-                value: a.value + c * e.value,
-                attained: a.attained && e.attained,
-            })
-        };
-        lo = add(lo, for_lo);
-        hi = add(hi, for_hi);
+    let param = params.iter().find(|p| p.name == name)?;
+    let coeffs = |p: &crate::algebra::Poly| p.univariate_coeffs(&name).unwrap_or_default();
+    let pairs: Vec<(Vec<Q>, Vec<Q>)> = conditions
+        .iter()
+        .map(|(f, _)| (coeffs(f.numer()), coeffs(f.denom())))
+        .collect();
+    let open_at: Vec<Vec<Q>> = conditions
+        .iter()
+        .filter(|(_, open)| *open)
+        .map(|(f, _)| coeffs(f.numer()))
+        .collect();
+    Some(split_univariate_open(
+        &name,
+        param.integer,
+        &pairs,
+        &open_at,
+        &Interval::of_param(param),
+        digits,
+    ))
+}
+
+/// Where every requirement holds together: the conjunction of the undecided ones solved in
+/// their one parameter, or the one undecided requirement's linear solution; `None` when
+/// nothing is undecided or they cannot be combined.
+pub fn joint_region(
+    requirements: &[Requirement],
+    values: &BTreeMap<String, Q>,
+    params: &[Param],
+    digits: u32,
+) -> Option<Region> {
+    let open: Vec<&Requirement> = requirements
+        .iter()
+        .filter(|r| r.verdict == Verdict::Undecided)
+        .collect();
+    if open.is_empty() || open.iter().any(|r| r.region.is_none()) {
+        return None;
     }
-    Some((lo, hi))
+    if let [only] = open.as_slice() {
+        return only.region.clone();
+    }
+    if let Some(strongest) = strongest_linear(&open) {
+        return Some(Region::Linear(strongest));
+    }
+    let conditions = substituted(
+        open.iter()
+            .flat_map(|r| as_positive(&r.inequality))
+            .collect(),
+        values,
+    )?;
+    split_of(&conditions, params, digits).map(Region::Intervals)
 }
 
 #[cfg(test)]

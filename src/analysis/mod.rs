@@ -24,12 +24,12 @@ pub mod sums;
 pub mod symbolic;
 pub mod tail;
 
-pub use conditions::{Inequality, Requirement, Verdict};
+pub use conditions::{Inequality, Region, Requirement, Verdict};
 pub use hypergeometric::{HyperSeries, RisingForm};
 pub use numeric_sum::{moment_sums, Bounded, MomentSums, NumericRule, SumFailure, SumMethod};
 pub use report::{
     analyse, normalizing_base_value, Analysis, AnalysisRequest, Finiteness, Moment, Normalization,
-    NumberReport, TailCheck, TailNumbers, TailReport,
+    NumberReport, TailCheck, TailNumbers, TailReport, TotalParts,
 };
 pub use sums::{closed_sum, Theorem};
 pub use symbolic::{Atom, Expr, Term};

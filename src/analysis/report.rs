@@ -6,7 +6,7 @@ use num_bigint::BigInt;
 use num_traits::{One, Signed};
 use rug::{Float, Rational};
 
-use super::conditions::{Inequality, Requirement, Verdict};
+use super::conditions::{joint_region, Inequality, Region, Requirement, Verdict};
 use super::hypergeometric::{HyperSeries, RisingForm};
 use super::moments::closed_moments;
 use super::numbers::{evaluate_expr, tail_numbers, Numbers};
@@ -96,12 +96,14 @@ pub struct TailReport {
 #[derive(Clone, Debug)]
 pub struct Normalization {
     pub base_index: BigInt,
-    /// Σ_{k≥b} a(k) = a(b) · series.
-    pub series: HyperSeries,
+    /// Σ_{k≥b} a(k) = a(b) · series (`None` for a piecewise model, summed over its pieces).
+    pub series: Option<HyperSeries>,
     /// The series' sum in closed form and the theorem that gave it.
     pub closed_form: Option<(Expr, Theorem)>,
     pub requirements: Vec<Requirement>,
     pub finiteness: Finiteness,
+    /// Where the total is finite when the ranges leave it open (see [`Region`]).
+    pub finite_for: Option<Region>,
     /// The total with a(b) = 1.
     pub value: Option<NumberReport>,
     /// With `--normalize`: a(b) = 1/series, symbolically and as a number.
@@ -109,6 +111,20 @@ pub struct Normalization {
     pub finite_support: bool,
     /// Why no number was given although the parameters are numeric.
     pub numeric_note: Option<String>,
+    /// A piecewise model's total split at its last breakpoint (`None` for a single rule).
+    pub parts: Option<TotalParts>,
+}
+
+/// `Σ a(k)` (a(b) = 1) as the part up to the last breakpoint and the last piece's part.
+#[derive(Clone, Debug)]
+pub struct TotalParts {
+    /// Σ_{k=b..b'} a(k), exact.
+    pub finite_part: String,
+    /// Σ_{k>b'} a(k): exact or a decimal with `tail_error_bound`; `None` when it diverges or
+    /// could not be summed.
+    pub tail_part: Option<String>,
+    pub tail_exact: bool,
+    pub tail_error_bound: Option<String>,
 }
 
 #[derive(Clone, Debug)]
@@ -116,6 +132,8 @@ pub struct Moment {
     pub closed_form: Option<(Expr, Vec<Theorem>)>,
     pub requirements: Vec<Requirement>,
     pub finiteness: Finiteness,
+    /// Where the moment is finite when the ranges leave it open (see [`Region`]).
+    pub finite_for: Option<Region>,
     pub value: Option<NumberReport>,
 }
 
@@ -192,6 +210,25 @@ fn finiteness(requirements: &[Requirement]) -> Finiteness {
     }
 }
 
+/// An undecided finiteness whose conditions, solved together, hold nowhere on the declared
+/// range is infinite; the region is kept only while it is partial.
+fn settle(f: Finiteness, region: Option<Region>) -> (Finiteness, Option<Region>) {
+    match (&f, &region) {
+        (Finiteness::Undecided, Some(Region::Intervals(split)))
+            if split.everywhere() == Some(false) =>
+        {
+            (
+                Finiteness::Infinite(
+                    "no value in the declared range meets all its conditions together".into(),
+                ),
+                None,
+            )
+        }
+        (Finiteness::Undecided, _) => (f, region),
+        _ => (f, None),
+    }
+}
+
 /// Runs every analysis for a solved rule.
 pub fn analyse(
     problem: &Problem,
@@ -217,12 +254,14 @@ pub fn analyse(
                 return Vec::new();
             }
             convergence(&law, j as i64)
-                .map(|i| Requirement::new(i, PURPOSES[j], values, &problem.params))
+                .map(|i| Requirement::new(i, PURPOSES[j], values, &problem.params, request.digits))
                 .into_iter()
                 .collect()
         })
         .collect();
-    let total_finiteness = finiteness(&requirements[0]);
+    let region = |r: &[Requirement]| joint_region(r, values, &problem.params, request.digits);
+    let (total_finiteness, total_region) =
+        settle(finiteness(&requirements[0]), region(&requirements[0]));
     let total_term = closed.as_ref().map(|(t, _)| t.clone());
     let moments = total_term
         .as_ref()
@@ -236,7 +275,7 @@ pub fn analyse(
     };
     let mut normalization = Normalization {
         base_index: base.clone(),
-        series: series.clone(),
+        series: Some(series.clone()),
         // A divergent series has no sum (Gauss's formula would sit on a pole of Γ).
         closed_form: closed
             .as_ref()
@@ -244,29 +283,39 @@ pub fn analyse(
             .map(|(t, th)| (Expr::from_term(t.clone()), *th)),
         requirements: requirements[0].clone(),
         finiteness: total_finiteness.clone(),
+        finite_for: total_region,
         value: None,
         base_value: None,
         finite_support,
         numeric_note: None,
+        parts: None,
     };
-    let moment_finiteness = |j: usize| -> Finiteness {
+    let moment_finiteness = |j: usize| -> (Finiteness, Option<Region>) {
         match &total_finiteness {
-            Finiteness::Infinite(_) => {
-                Finiteness::Infinite("the total diverges, so there is no distribution".into())
-            }
-            _ => finiteness(&moment_requirements(j)),
+            Finiteness::Infinite(_) => (
+                Finiteness::Infinite("the total diverges, so there is no distribution".into()),
+                None,
+            ),
+            _ => settle(
+                finiteness(&moment_requirements(j)),
+                region(&moment_requirements(j)),
+            ),
         }
     };
+    let (mean_finiteness, mean_region) = moment_finiteness(1);
+    let (variance_finiteness, variance_region) = moment_finiteness(2);
     let mut mean = Moment {
         closed_form: moments.as_ref().and_then(|m| m.mean.clone()),
         requirements: moment_requirements(1),
-        finiteness: moment_finiteness(1),
+        finiteness: mean_finiteness,
+        finite_for: mean_region,
         value: None,
     };
     let mut variance = Moment {
         closed_form: moments.as_ref().and_then(|m| m.variance.clone()),
         requirements: moment_requirements(2),
-        finiteness: moment_finiteness(2),
+        finiteness: variance_finiteness,
+        finite_for: variance_region,
         value: None,
     };
     let mut tail = (!finite_support).then(|| TailReport {

@@ -26,6 +26,37 @@ pub const DEFAULT_FIRST_INDEX: i64 = 2;
 /// Sequence name used for a bare ratio expression.
 pub const DEFAULT_SEQUENCE: &str = "a";
 
+/// Names tried, in order, for the sequence of a bare ratio when `a` is taken.
+const SPARE_SEQUENCE_NAMES: [&str; 8] = ["u", "v", "w", "y", "f", "g", "h", "q"];
+
+/// The sequence name of a bare ratio: [`DEFAULT_SEQUENCE`] unless the expression uses it as a
+/// plain name (a parameter: in a bare ratio no sequence term is written, so `a` without an
+/// index argument is not one) or a `param` declares it; then the first spare name not used.
+fn bare_sequence_name(parsed: &syntax::Model, expr: &Expr, index: &str) -> String {
+    let mut used: Vec<String> = vec![index.to_string()];
+    expr.walk(&mut |node| {
+        if let ExprKind::Ident(name) = &node.kind {
+            used.push(name.clone());
+        }
+    });
+    for statement in &parsed.statements {
+        if let StatementKind::Param(decl) = &statement.kind {
+            used.extend(decl.names.iter().map(|(name, _)| name.clone()));
+        }
+    }
+    let free = |name: &str| !used.iter().any(|u| u == name);
+    std::iter::once(DEFAULT_SEQUENCE)
+        .chain(SPARE_SEQUENCE_NAMES)
+        .find(|name| free(name))
+        .map(str::to_string)
+        .unwrap_or_else(|| {
+            (1u32..)
+                .map(|i| format!("{DEFAULT_SEQUENCE}{i}"))
+                .find(|name| free(name))
+                .expect("a free name")
+        })
+}
+
 /// Sequence name of a model given only by rates (π in the texts; `pi` is the constant).
 pub const RATES_SEQUENCE: &str = "p";
 
@@ -36,10 +67,15 @@ pub fn build_problem(text: &str) -> Result<Problem, Diagnostic> {
     if model.is_piecewise() {
         return Err(Diagnostic::new(
             format!(
-                "this model has {} pieces; a single problem holds one rule",
+                "this model has {} piece(s) or a bounded state space; a single problem holds one open-ended rule",
                 model.pieces.len()
             ),
-            model.pieces[1].span.clone(),
+            model
+                .pieces
+                .get(1)
+                .map(|p| p.span.clone())
+                .or_else(|| model.pieces.last().and_then(|p| p.range_span.clone()))
+                .unwrap_or(0..0),
         )
         .with_help("read it with build_model and solve it piece by piece (telescope solve does)"));
     }
@@ -140,7 +176,7 @@ pub fn build_model(text: &str) -> Result<Model, Diagnostic> {
                     .map(|r| r.var.clone())
                     .unwrap_or_else(|| "k".to_string());
                 rules.push(RuleStatement::Ratio {
-                    sequence: DEFAULT_SEQUENCE.to_string(),
+                    sequence: bare_sequence_name(&parsed, expr, &index),
                     index,
                     rhs: expr,
                     range: range.as_ref(),
@@ -225,15 +261,6 @@ pub fn build_model(text: &str) -> Result<Model, Diagnostic> {
         rate_pieces(&rate_statements, &sequence, &declared, &mut discovered)?
     };
     check_consecutive(&pieces)?;
-    if let Some(last) = pieces.last() {
-        if last.last.is_some() && pieces.len() > 1 {
-            return Err(Diagnostic::new(
-                "the last piece must run to infinity (a truncated rule is not supported)",
-                last.range_span.clone().unwrap_or(last.span.clone()),
-            )
-            .with_help("write the last range open-ended, e.g. `for k > c`"));
-        }
-    }
     let boundary = match boundaries.as_slice() {
         [] => None,
         [_, second, ..] => {
@@ -351,15 +378,6 @@ fn rule_pieces(
         let range = index_range(rule.range(), index, DEFAULT_FIRST_INDEX, declared)?;
         // Without `for` the default speaks of the rule (base term a(1)), not of the equation.
         let shift = RatFunc::from_integer(if rule.range().is_some() { shift } else { 0 });
-        if let (Some((_, upper_span)), 1) = (&range.last, rules.len()) {
-            return Err(Diagnostic::new(
-                "an upper bound on the index is not supported for a single rule",
-                upper_span.clone(),
-            )
-            .with_help(
-                "a finite support follows from the rule itself, e.g. a factor (N - k + 1)",
-            ));
-        }
         pieces.push(Piece {
             ratio,
             first: &range.first + &shift,

@@ -46,6 +46,9 @@ pub enum Assumption {
     DetailedBalance,
     /// The declared state space ends at this index, where the birth rate vanishes.
     StateSpaceEnds { at: RatFunc },
+    /// A finite state space cut at this index (a capacity): no birth out of it, though the
+    /// birth rate written would not vanish there.
+    Capacity { at: RatFunc },
 }
 
 /// One piece's derivation.

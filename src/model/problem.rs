@@ -127,8 +127,15 @@ pub struct ResolvedPiece {
 }
 
 impl Model {
+    /// Several pieces, or one cut at an upper bound (a finite state space): such models are
+    /// solved, summed and tabulated piece by piece.
     pub fn is_piecewise(&self) -> bool {
-        self.pieces.len() > 1
+        self.pieces.len() > 1 || self.pieces.last().is_some_and(|p| p.last.is_some())
+    }
+
+    /// The last index of a finite state space cut at an upper bound, as written.
+    pub fn capacity(&self) -> Option<&RatFunc> {
+        self.pieces.last().and_then(|p| p.last.as_ref())
     }
 
     pub fn param(&self, name: &str) -> Option<&Param> {
@@ -152,6 +159,12 @@ impl Model {
                 None => None,
             };
             if let Some(l) = &last {
+                // A bounded last piece may be empty (K = c: no room beyond the c-th state);
+                // the piece before it then ends the state space.
+                let is_last = std::ptr::eq(piece, self.pieces.last().expect("non-empty"));
+                if is_last && !out.is_empty() && l + 1 == first {
+                    continue;
+                }
                 if *l < first {
                     return Err(Diagnostic::new(
                         format!("with these values this piece is empty ({first} ≤ k ≤ {l})"),

@@ -141,27 +141,51 @@ pub fn rate_pieces(
         }
     }
     let mut assumptions = vec![Assumption::DetailedBalance];
-    let end = births
-        .last()
-        .and_then(|b| b.last.clone())
-        .or_else(|| deaths.last().and_then(|d| d.last.clone()));
-    if let Some(end) = &end {
+    // Where the state space ends: births given up to E reach E + 1, and no further (a
+    // capacity) unless birth(E) = 0, when E itself is the last state; deaths given up to E
+    // end it at E.
+    let birth_end = births.last().and_then(|b| b.last.clone());
+    let death_end = deaths.last().and_then(|d| d.last.clone());
+    let mut capacity: Option<RatFunc> = None;
+    if let Some(end) = &birth_end {
         let last_birth = births.last().expect("non-empty");
         let at_end = last_birth
             .form
             .expand()
             .substitute(&index, end)
             .unwrap_or_else(RatFunc::one);
-        if !at_end.is_zero() {
-            return Err(Diagnostic::new(
-                format!("the state space ends at {end}, but birth({end}) is not zero"),
-                last_birth.statement.span.clone(),
-            )
-            .with_help(
-                "a chain that stops at a last state needs a birth rate vanishing there (such as (N - k)/N); truncated chains are not supported",
-            ));
+        if at_end.is_zero() {
+            assumptions.push(Assumption::StateSpaceEnds { at: end.clone() });
+        } else {
+            capacity = Some(end + &RatFunc::one());
         }
-        assumptions.push(Assumption::StateSpaceEnds { at: end.clone() });
+    }
+    if let Some(end) = &death_end {
+        match &capacity {
+            Some(k) if k != end => {
+                let last_death = deaths.last().expect("non-empty");
+                // Deaths must reach every state the births reach.
+                let shorter = (k - end)
+                    .as_constant()
+                    .map(|d| d > crate::algebra::Q::from_integer(0.into()));
+                if shorter != Some(false) {
+                    return Err(Diagnostic::new(
+                        format!("death({index}) is given up to {end}, but the births reach {index} = {k}"),
+                        last_death.range_span.clone().unwrap_or(last_death.statement.span.clone()),
+                    )
+                    .with_help(format!(
+                        "give death({index}) for every state up to {k}, or end the births at {end} - 1"
+                    )));
+                }
+                capacity = Some(end.clone());
+            }
+            Some(_) => {}
+            None if birth_end.is_none() => capacity = Some(end.clone()),
+            None => {}
+        }
+    }
+    if let Some(k) = &capacity {
+        assumptions.push(Assumption::Capacity { at: k.clone() });
     }
     let mut pieces = Vec::new();
     let piecewise_births = births.len() > 1;
@@ -187,7 +211,7 @@ pub fn rate_pieces(
         };
         let is_last = i + 1 == varying.len();
         let last = if is_last {
-            None
+            capacity.clone()
         } else {
             part.last.as_ref().map(lift)
         };
@@ -276,9 +300,9 @@ mod tests {
     fn rate_errors() {
         let e = build_model("birth(k) = lambda").unwrap_err();
         assert!(e.message.contains("no death(k)"), "{e:?}");
-        let e = build_model("param N integer >= 1\nbirth(k) = 1 for 0 <= k <= N\ndeath(k) = k")
-            .unwrap_err();
-        assert!(e.message.contains("birth(N) is not zero"), "{e:?}");
+        let e =
+            build_model("birth(k) = 1 for 0 <= k <= 5\ndeath(k) = k for 1 <= k <= 4").unwrap_err();
+        assert!(e.message.contains("the births reach k = 6"), "{e:?}");
         let e = build_model("birth(k) = 0\ndeath(k) = k").unwrap_err();
         assert!(e.message.contains("identically zero"), "{e:?}");
         let e = build_model("birth(k) = 1\ndeath(k) = k\na(k)/a(k-1) = 1/k").unwrap_err();

@@ -31,6 +31,8 @@ pub struct ChainedProduct<'a> {
     digits: u32,
     max_steps: u64,
     k: BigInt,
+    /// Past the end of a finite state space: every value is 0.
+    beyond: bool,
 }
 
 /// One directly computed a(k).
@@ -76,6 +78,7 @@ impl<'a> ChainedProduct<'a> {
             digits,
             max_steps,
             k: base,
+            beyond: false,
         }
     }
 
@@ -89,6 +92,19 @@ impl<'a> ChainedProduct<'a> {
         let k = self.index();
         let next = &k + 1;
         let pieces = &self.solution.pieces;
+        // A finite state space: no rule applies past its last state.
+        if self.beyond
+            || self
+                .solution
+                .tail_piece()
+                .last_index
+                .as_ref()
+                .is_some_and(|l| next > *l)
+        {
+            self.beyond = true;
+            self.k = next;
+            return Ok(());
+        }
         if self.piece + 1 < pieces.len() && !pieces[self.piece].contains(&next) {
             let carried = self.value();
             self.piece += 1;
@@ -118,6 +134,15 @@ impl<'a> ChainedProduct<'a> {
     }
 
     pub fn value(&self) -> ChainValue {
+        if self.beyond {
+            return match &self.scale {
+                None => ChainValue::Exact(Rational::new()),
+                Some((scale, _)) => ChainValue::Approx {
+                    value: LogReal::zero(scale.ln_abs.prec()),
+                    rel_error_bound: Float::new(64),
+                },
+            };
+        }
         match (self.run.value(), &self.scale) {
             (DirectValue::Exact(q), _) => ChainValue::Exact(q),
             (

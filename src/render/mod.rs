@@ -8,8 +8,11 @@ pub mod greek;
 pub mod latex;
 pub mod model_output;
 pub mod node;
+pub mod probability_output;
+pub mod region;
 pub mod report;
 pub mod solve_output;
+pub mod symbolic_output;
 pub mod table_output;
 pub mod text;
 pub mod to_node;
@@ -20,6 +23,7 @@ pub use model_output::{
     derivation_json, derivation_latex, derivation_text, has_derivation, piecewise_json,
     piecewise_latex, piecewise_text,
 };
+pub use probability_output::{probabilities_json, probabilities_latex, probabilities_text};
 pub use report::{solve_report, SolveFormat, SolveReport};
 pub use solve_output::{
     solve_json, solve_latex, solve_latex_with, solve_text, solve_text_with, SolveLayout,

@@ -6,7 +6,7 @@
 use serde_json::{json, Value};
 
 use crate::model::{Assumption, Model, Piece, ProductForm, RuleSource};
-use crate::piecewise::{ModelSolution, PiecewiseSum, TailSum};
+use crate::piecewise::ModelSolution;
 
 use super::node::Node;
 use super::{latex, solve_json, solve_latex, solve_text, text, to_node};
@@ -67,6 +67,10 @@ fn assumption_words(a: &Assumption, model: &Model) -> String {
         ),
         Assumption::StateSpaceEnds { at } => format!(
             "the state space ends at {k} = {}, where the birth rate vanishes",
+            text::write(&to_node::ratfunc(at))
+        ),
+        Assumption::Capacity { at } => format!(
+            "a finite state space: the chain stops at {k} = {} (no birth out of it), so {n}({k}) = 0 beyond",
             text::write(&to_node::ratfunc(at))
         ),
     }
@@ -306,94 +310,18 @@ pub fn derivation_json(model: &Model) -> Value {
 }
 
 /// `telescope solve` for a piecewise model: the derivation, then each piece's solution, then
-/// how the pieces join and, when every parameter has a value, the sum over the support.
-pub fn piecewise_text(
-    model: &Model,
-    solution: &ModelSolution,
-    sum: Option<&PiecewiseSum>,
-) -> String {
+/// how the pieces join; the analysis of the whole model (total, moments, tail) follows it.
+pub fn piecewise_text(model: &Model, solution: &ModelSolution) -> String {
     let mut out = derivation_text(model);
     for (i, piece) in solution.pieces.iter().enumerate() {
         out += &format!("\n── piece {} ──\n", i + 1);
         out += &solve_text(&piece.problem, &piece.solution);
+        if let Some(last) = &piece.last_index {
+            out += &format!("holds up to  {} = {last}\n", model.index);
+        }
     }
     out += &format!("\n{}", joins_text(model, solution));
-    if let Some(sum) = sum {
-        let base = solution.base_index();
-        let n = &model.sequence;
-        let (tail, total) = tail_words(sum);
-        let unit = if model.boundary.is_some() {
-            format!("with {n}({base}) from the boundary equation")
-        } else {
-            format!("in units of {n}({base})")
-        };
-        out += &format!(
-            "sum          Σ {n}(k) = {} (k ≤ {}) + {tail} (last piece) = {total}, {unit}\n",
-            sum.finite_part,
-            solution
-                .pieces
-                .last()
-                .map(|p| p.problem.base_index())
-                .unwrap_or(base.clone()),
-        );
-    }
     out
-}
-
-fn tail_words(sum: &PiecewiseSum) -> (String, String) {
-    match (&sum.tail, sum.total()) {
-        (TailSum::Exact(t), Some(total)) => (t.to_string(), total.to_string()),
-        (TailSum::Divergent, _) => ("∞".into(), "∞ (the tail diverges)".into()),
-        (
-            TailSum::Numeric {
-                tail,
-                total,
-                error_bound,
-                method,
-            },
-            _,
-        ) => (
-            tail.clone(),
-            format!("{total} (error ≤ {error_bound}; last piece: {method})"),
-        ),
-        _ => (
-            "…".into(),
-            "not summed here (the last piece is not geometric)".into(),
-        ),
-    }
-}
-
-fn sum_json(sum: &PiecewiseSum) -> Value {
-    let (tail, total) = match &sum.tail {
-        TailSum::Exact(t) => (
-            json!(t.to_string()),
-            json!(sum.total().map(|t| t.to_string())),
-        ),
-        TailSum::Numeric { tail, total, .. } => (json!(tail), json!(total)),
-        _ => (Value::Null, Value::Null),
-    };
-    let status = match &sum.tail {
-        TailSum::Exact(_) => "exact",
-        TailSum::Divergent => "divergent",
-        TailSum::NotGeometric => "not_summed",
-        TailSum::Numeric { .. } => "numeric",
-    };
-    let (error_bound, method) = match &sum.tail {
-        TailSum::Numeric {
-            error_bound,
-            method,
-            ..
-        } => (json!(error_bound), json!(method)),
-        _ => (Value::Null, Value::Null),
-    };
-    json!({
-        "finite_part": sum.finite_part.to_string(),
-        "tail_part": tail,
-        "total": total,
-        "tail": status,
-        "error_bound": error_bound,
-        "method": method,
-    })
 }
 
 fn joins_text(model: &Model, solution: &ModelSolution) -> String {
@@ -407,11 +335,21 @@ fn joins_text(model: &Model, solution: &ModelSolution) -> String {
             i
         );
     }
-    out += &format!(
-        "tail         the large-{} behaviour is that of piece {}\n",
-        model.index,
-        solution.pieces.len()
-    );
+    match &solution.tail_piece().last_index {
+        Some(last) => {
+            out += &format!(
+                "support      ends at {} = {last}: a finite state space\n",
+                model.index
+            )
+        }
+        None => {
+            out += &format!(
+                "tail         the large-{} behaviour is that of piece {}\n",
+                model.index,
+                solution.pieces.len()
+            )
+        }
+    }
     out
 }
 
@@ -425,12 +363,9 @@ pub fn piecewise_latex(model: &Model, solution: &ModelSolution) -> String {
 }
 
 /// JSON for a piecewise model: `derivation`, `pieces` (each the single-rule object plus its
-/// `last_index`), `breakpoints`, `sum`.
-pub fn piecewise_json(
-    model: &Model,
-    solution: &ModelSolution,
-    sum: Option<&PiecewiseSum>,
-) -> Value {
+/// `last_index`), `breakpoints`, `last_index` (the end of a finite state space, else null);
+/// the analysis fields (`normalization`, `mean`, `variance`, `tail`, …) are added beside them.
+pub fn piecewise_json(model: &Model, solution: &ModelSolution) -> Value {
     let pieces: Vec<Value> = solution
         .pieces
         .iter()
@@ -450,6 +385,6 @@ pub fn piecewise_json(
         "derivation": derivation_json(model),
         "pieces": pieces,
         "breakpoints": solution.breakpoints().iter().map(|b| b.to_string()).collect::<Vec<_>>(),
-        "sum": sum.map(sum_json),
+        "last_index": solution.tail_piece().last_index.as_ref().map(|l| l.to_string()),
     })
 }

@@ -4,22 +4,25 @@
 
 use crate::analysis::Analysis;
 use crate::model::Model;
-use crate::piecewise::{ModelSolution, PiecewiseSum};
+use crate::piecewise::ModelSolution;
+use crate::probability::Probability;
 
 use super::{
     analysis_json, analysis_latex, analysis_text, derivation, derivation_json, derivation_latex,
-    derivation_text, has_derivation, piecewise_json, piecewise_latex, piecewise_text, solve_json,
-    solve_latex_with, solve_text_with, SolveLayout,
+    derivation_text, has_derivation, piecewise_json, piecewise_latex, piecewise_text,
+    probabilities_json, probabilities_latex, probabilities_text, solve_json, solve_latex_with,
+    solve_text_with, SolveLayout,
 };
 
-/// What was computed beyond the closed form: the exact sum over the pieces of a piecewise
-/// model, or the analysis (tail, total, moments) of a single rule.
+/// What was computed beyond the closed form: the analysis (tail, total, moments) of a single
+/// rule or of a whole piecewise model, and the probabilities asked for.
 #[derive(Clone, Copy, Default)]
 pub struct SolveReport<'a> {
-    pub sum: Option<&'a PiecewiseSum>,
     pub analysis: Option<&'a Analysis>,
     /// The digits the analysis was asked for (reported in JSON).
     pub digits: u32,
+    /// Answers to `--prob` events (empty when none was asked for).
+    pub probabilities: &'a [Probability],
 }
 
 /// The output formats of `solve`.
@@ -43,9 +46,10 @@ pub fn solve_report(
     layout: SolveLayout,
 ) -> String {
     let first = &solved.pieces[0].problem;
-    let sum = report.sum;
-    let analysis_text_part = report.analysis.map(analysis_text).unwrap_or_default();
-    let analysis_latex_part = report.analysis.map(analysis_latex).unwrap_or_default();
+    let analysis_text_part = report.analysis.map(analysis_text).unwrap_or_default()
+        + &probabilities_text(report.probabilities);
+    let analysis_latex_part = report.analysis.map(analysis_latex).unwrap_or_default()
+        + &probabilities_latex(report.probabilities);
     let wrap = |body: String| {
         if layout.standalone {
             derivation::standalone(first, &body)
@@ -55,9 +59,19 @@ pub fn solve_report(
     };
     if model.is_piecewise() {
         return match format {
-            SolveFormat::Text => piecewise_text(model, solved, sum),
-            SolveFormat::Latex => wrap(piecewise_latex(model, solved)),
-            SolveFormat::Json => pretty(&piecewise_json(model, solved, sum)),
+            SolveFormat::Text => piecewise_text(model, solved) + &analysis_text_part,
+            SolveFormat::Latex => wrap(piecewise_latex(model, solved) + &analysis_latex_part),
+            SolveFormat::Json => {
+                let mut json = piecewise_json(model, solved);
+                if let (Some(analysis), serde_json::Value::Object(fields)) =
+                    (report.analysis, &mut json)
+                {
+                    fields.insert("digits".into(), report.digits.to_string().into());
+                    fields.extend(analysis_json(analysis));
+                }
+                json["probabilities"] = probabilities_json(report.probabilities);
+                pretty(&json)
+            }
         };
     }
     let (problem, solution) = (first, &solved.pieces[0].solution);
@@ -90,6 +104,7 @@ pub fn solve_report(
                 fields.insert("digits".into(), report.digits.to_string().into());
                 fields.extend(analysis_json(analysis));
             }
+            json["probabilities"] = probabilities_json(report.probabilities);
             pretty(&json)
         }
     }

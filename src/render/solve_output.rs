@@ -8,7 +8,9 @@ use crate::model::{Param, Problem};
 use crate::solve::{Condition, ConditionKind, Solution, Status, SupportEnd};
 
 use super::node::Node;
+use super::region::{region_json, region_latex, region_text};
 use super::{derivation, formula, latex, text, to_node};
+use crate::analysis::Region;
 
 /// `a(k)/a(k−1) = R(k)` as one node pair.
 pub(crate) fn rule_nodes(problem: &Problem) -> (Node, Node) {
@@ -134,6 +136,12 @@ fn condition_line(problem: &Problem, c: &Condition) -> String {
     };
     if let Status::NotDecided(note) = &c.status {
         status = format!("{status}: {note}");
+    }
+    if let Some(split) = &c.holds_for {
+        status += &format!(
+            "; {}",
+            region_text(&Region::Intervals(split.clone()), "holds", "fails")
+        );
     }
     format!("  {t}   ({}; {status})\n", c.reason)
 }
@@ -330,7 +338,14 @@ pub(crate) fn conditions_latex(problem: &Problem, solution: &Solution) -> String
     let index = &problem.index;
     let math = |list: &[&Condition]| -> Vec<String> {
         list.iter()
-            .map(|c| format!("${}$", condition_strings(c).1))
+            .map(|c| match &c.holds_for {
+                Some(split) => format!(
+                    "${}$ (that is, ${}$)",
+                    condition_strings(c).1,
+                    region_latex(&Region::Intervals(split.clone()))
+                ),
+                None => format!("${}$", condition_strings(c).1),
+            })
             .collect()
     };
     let mut out = format!("This holds for ${}$", support_latex(solution, index));
@@ -464,6 +479,7 @@ pub fn solve_json(problem: &Problem, solution: &Solution) -> Value {
                 "settled_by": why.map(|(text, _)| text),
                 "settled_by_ranges": by_ranges,
                 "note": note,
+                "holds_for": region_json(c.holds_for.clone().map(Region::Intervals).as_ref()),
             })
         }).collect::<Vec<_>>(),
     })

@@ -4,6 +4,9 @@
 //! rising products, the reflected form for factors written `β − k`); `support` finds where the
 //! sequence ends and which parameter values the result excludes.
 
+pub mod algebraic;
+pub mod box_sign;
+pub mod inequality;
 pub mod ranges;
 mod support;
 mod telescope;

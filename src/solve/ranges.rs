@@ -7,7 +7,8 @@
 //! exactly: rational ones by [`rational_roots`], irrational ones only counted, by Sturm's
 //! theorem (Basu, Pollack, Roy, *Algorithms in Real Algebraic Geometry*, Thm. 2.50); when an
 //! irrational breakpoint lies inside the interval the question is left undecided rather than
-//! guessed. Several free parameters: not decided.
+//! guessed. Several free parameters: decided only when interval arithmetic over the box of
+//! ranges proves a sign ([`super::box_sign`]).
 
 use std::cmp::Ordering;
 use std::collections::BTreeMap;
@@ -17,6 +18,8 @@ use num_traits::{One, Signed, Zero};
 
 use crate::algebra::{rational_roots, RatFunc, Q};
 use crate::model::{Param, Problem};
+
+use super::box_sign::{box_sign, BoxSign};
 
 /// A point of the extended real line.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -120,18 +123,18 @@ pub enum Verdict {
 
 // ---- dense univariate polynomials, `p[i]` multiplies x^i ----
 
-fn trim(mut p: Vec<Q>) -> Vec<Q> {
+pub(super) fn trim(mut p: Vec<Q>) -> Vec<Q> {
     while p.last().is_some_and(Zero::is_zero) {
         p.pop();
     }
     p
 }
 
-fn evaluate(p: &[Q], x: &Q) -> Q {
+pub(super) fn evaluate(p: &[Q], x: &Q) -> Q {
     p.iter().rev().fold(Q::zero(), |acc, a| acc * x + a)
 }
 
-fn derivative(p: &[Q]) -> Vec<Q> {
+pub(super) fn derivative(p: &[Q]) -> Vec<Q> {
     p.iter()
         .enumerate()
         .skip(1)
@@ -139,7 +142,7 @@ fn derivative(p: &[Q]) -> Vec<Q> {
         .collect()
 }
 
-fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
+pub(super) fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
     if a.is_empty() || b.is_empty() {
         return Vec::new();
     }
@@ -163,7 +166,7 @@ fn subtract(a: &[Q], b: &[Q]) -> Vec<Q> {
     trim(out)
 }
 
-fn remainder(a: &[Q], b: &[Q]) -> Vec<Q> {
+pub(super) fn remainder(a: &[Q], b: &[Q]) -> Vec<Q> {
     let mut r = trim(a.to_vec());
     let lead = b.last().expect("non-zero divisor").clone();
     while r.len() >= b.len() && !r.is_empty() {
@@ -216,10 +219,15 @@ fn variations(chain: &[Vec<Q>], x: &Extended) -> usize {
 
 /// Distinct real roots of `p` strictly between `a` and `b`, neither of which is a root
 /// (Sturm's theorem).
-fn count_roots_between(p: &[Q], a: &Extended, b: &Extended) -> usize {
+pub(super) fn count_roots_between(p: &[Q], a: &Extended, b: &Extended) -> usize {
     if p.len() <= 1 {
         return 0;
     }
+    count_with_chain(&sturm_chain(p), a, b)
+}
+
+/// The Sturm chain p, p′, −rem(p, p′), … (built once for repeated counts).
+pub(super) fn sturm_chain(p: &[Q]) -> Vec<Vec<Q>> {
     let mut chain = vec![p.to_vec(), derivative(p)];
     while chain.last().is_some_and(|q| q.len() > 1) {
         let n = chain.len();
@@ -227,9 +235,16 @@ fn count_roots_between(p: &[Q], a: &Extended, b: &Extended) -> usize {
         if r.is_empty() {
             break;
         }
-        chain.push(r.into_iter().map(|c| -c).collect());
+        // A positive factor changes no sign: −r / |lead(r)| keeps the numbers small.
+        let scale = r.last().expect("non-empty remainder").abs();
+        chain.push(r.into_iter().map(|c| -c / &scale).collect());
     }
-    variations(&chain, a).saturating_sub(variations(&chain, b))
+    chain
+}
+
+/// Distinct real roots strictly between `a` and `b` (neither a root), from a Sturm chain.
+pub(super) fn count_with_chain(chain: &[Vec<Q>], a: &Extended, b: &Extended) -> usize {
+    variations(chain, a).saturating_sub(variations(chain, b))
 }
 
 /// The real roots of `p` strictly inside the interval's ends, when all of them are rational.
@@ -396,7 +411,18 @@ pub fn takes_integer_at_least(
 ) -> Verdict {
     let (num, den, param) = match univariate(expr, problem, values) {
         Ok(parts) => parts,
-        Err(why) => return Verdict::Open(why),
+        Err(why) => {
+            // Several parameters: below `min` on the whole box of ranges means never.
+            let below = expr
+                .eval_partial(values)
+                .ok()
+                .map(|e| &RatFunc::constant(Q::from_integer(min.clone())) - &e)
+                .and_then(|gap| box_sign(&gap, &problem.params));
+            return match below {
+                Some(BoxSign::Positive) => Verdict::Never,
+                _ => Verdict::Open(why),
+            };
+        }
     };
     let interval = Interval::of_param(param);
     if interval.is_everything() && !param.integer {
@@ -424,6 +450,42 @@ pub fn takes_integer_at_least(
     }
 }
 
+/// Most integers listed by [`integers_reached`].
+const MAX_INTEGERS_REACHED: usize = 20;
+
+/// The integers ≥ `min` that `expr` (one free parameter) takes on the declared range, when
+/// its image is bounded above so that they are few; `None` otherwise.
+pub fn integers_reached(
+    expr: &RatFunc,
+    min: &BigInt,
+    problem: &Problem,
+    values: &BTreeMap<String, Q>,
+) -> Option<Vec<BigInt>> {
+    let (num, den, param) = univariate(expr, problem, values).ok()?;
+    let pieces = image(&num, &den, &Interval::of_param(param)).ok()?;
+    let mut out: Vec<BigInt> = Vec::new();
+    for piece in pieces {
+        let Extended::Finite(high) = &piece.high else {
+            if piece.has_integer_at_least(min) {
+                return None;
+            }
+            continue;
+        };
+        let mut m = min.clone();
+        while Q::from_integer(m.clone()) <= *high {
+            if piece.contains(&Q::from_integer(m.clone())) && !out.contains(&m) {
+                out.push(m.clone());
+                if out.len() > MAX_INTEGERS_REACHED {
+                    return None;
+                }
+            }
+            m += 1;
+        }
+    }
+    out.sort();
+    Some(out)
+}
+
 /// Whether `expr` vanishes somewhere on the declared range.
 pub fn vanishes_somewhere(
     expr: &RatFunc,
@@ -432,7 +494,17 @@ pub fn vanishes_somewhere(
 ) -> Verdict {
     let (num, _, param) = match univariate(expr, problem, values) {
         Ok(parts) => parts,
-        Err(why) => return Verdict::Open(why),
+        Err(why) => {
+            // Several parameters: a sign proven on the whole box of ranges means never zero.
+            let sign = expr
+                .eval_partial(values)
+                .ok()
+                .and_then(|e| box_sign(&e, &problem.params));
+            return match sign {
+                Some(BoxSign::Positive | BoxSign::Negative) => Verdict::Never,
+                _ => Verdict::Open(why),
+            };
+        }
     };
     let interval = Interval::of_param(param);
     let (roots, cofactor) = rational_roots(&num);
@@ -556,12 +628,33 @@ mod tests {
             takes_integer_at_least(&e, &1.into(), &p, &none),
             Verdict::Open(why) if why.contains("several")
         ));
+        // a/b with a, b > 0 is positive on the whole box: it never reaches 0, −1, −2, …
+        let ratio = RatFunc::var("a").checked_div(&RatFunc::var("b")).unwrap();
+        assert_eq!(
+            takes_integer_at_least(&-ratio.clone(), &0.into(), &p, &none),
+            Verdict::Never
+        );
+        assert_eq!(vanishes_somewhere(&ratio, &p, &none), Verdict::Never);
         // With b fixed the question is about a alone: a − 5 on (0, ∞) reaches 1, 2, …
         let fixed = BTreeMap::from([("b".to_string(), q(5, 1))]);
         assert_eq!(
             takes_integer_at_least(&e, &1.into(), &p, &fixed),
             Verdict::Sometimes
         );
+    }
+
+    #[test]
+    fn the_integers_a_bounded_image_reaches_are_listed() {
+        // 1/ρ maps (1/4, 1) onto (1, 4): it reaches 2 and 3; on (0, 1) it is unbounded.
+        let f = rho_fn(&[1], &[0, 1]);
+        let none = BTreeMap::new();
+        let p = problem("param rho in (1/4, 1)\na(k)/a(k-1) = rho/k  for k >= 1");
+        assert_eq!(
+            integers_reached(&f, &2.into(), &p, &none),
+            Some(vec![2.into(), 3.into()])
+        );
+        let p = problem("param rho in (0, 1)\na(k)/a(k-1) = rho/k  for k >= 1");
+        assert_eq!(integers_reached(&f, &2.into(), &p, &none), None);
     }
 
     #[test]

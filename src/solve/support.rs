@@ -11,7 +11,10 @@ use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
 use crate::ratio::{LinearFactor, Ratio};
 
-use super::ranges::{range_contains, takes_integer_at_least, vanishes_somewhere, Verdict};
+use super::inequality::{split_univariate, Split};
+use super::ranges::{
+    integers_reached, range_contains, takes_integer_at_least, vanishes_somewhere, Interval, Verdict,
+};
 use super::telescope::numeric_shift;
 
 /// The index range on which a(k) is non-zero.
@@ -40,6 +43,8 @@ pub struct Condition {
     /// Why, in words (no formulas: renderers format `kind`).
     pub reason: String,
     pub status: Status,
+    /// Where it holds on the declared range when the range leaves it open (one parameter).
+    pub holds_for: Option<Split>,
 }
 
 #[derive(Clone, Debug, PartialEq)]
@@ -99,10 +104,11 @@ pub fn find_support(
             None => {
                 // A root the declared ranges keep off the integers ≥ the first index never
                 // ends the support: `k + r − 1` with r > 0 is non-zero for every k ≥ 1.
-                let reachable =
-                    takes_integer_at_least(&root, first_index, problem, values) != Verdict::Never;
-                if reachable && symbolic.is_none() {
-                    let certain = is_integer_valued(&root, problem);
+                let verdict = takes_integer_at_least(&root, first_index, problem, values);
+                if verdict != Verdict::Never && symbolic.is_none() {
+                    // Certain when the ranges put the root on an integer ≥ the first index
+                    // for every admissible value (e.g. `N − k + 1` with N integer ≥ 1).
+                    let certain = verdict == Verdict::Always || is_integer_valued(&root, problem);
                     symbolic = Some((&root - &RatFunc::one(), certain));
                 }
             }
@@ -249,11 +255,62 @@ fn push_unique(
         Status::Undecided => decide_from_ranges(&kind, problem, values),
         decided => decided,
     };
+    let holds_for = match status {
+        Status::NotDecided(_) => holds_for(&kind, problem, values),
+        _ => None,
+    };
     out.push(Condition {
         kind,
         reason: reason.to_string(),
         status,
+        holds_for,
     });
+}
+
+/// Digits of irrational interval ends in `holds_for`.
+const HOLDS_FOR_DIGITS: u32 = 30;
+
+/// Where a condition in one parameter holds on its declared range: the range without the
+/// excluded values, each written as `(e − v)² > 0` for [`split_univariate`].
+fn holds_for(
+    kind: &ConditionKind,
+    problem: &Problem,
+    values: &BTreeMap<String, Q>,
+) -> Option<Split> {
+    let (expr, excluded): (RatFunc, Vec<BigInt>) = match kind {
+        ConditionKind::NotEqual { param, value } => (
+            &RatFunc::var(param) - &RatFunc::constant(value.clone()),
+            vec![BigInt::zero()],
+        ),
+        ConditionKind::NonZero(expr) => (expr.clone(), vec![BigInt::zero()]),
+        ConditionKind::NotIntegerAtLeast { expr, min } => {
+            (expr.clone(), integers_reached(expr, min, problem, values)?)
+        }
+    };
+    let expr = expr.eval_partial(values).ok()?;
+    let variables = expr.variables();
+    if variables.len() != 1 {
+        return None;
+    }
+    let name = variables.into_iter().next()?;
+    let param = problem.param(&name)?;
+    let inequalities: Vec<(Vec<Q>, Vec<Q>)> = excluded
+        .iter()
+        .map(|m| {
+            let gap = &expr - &RatFunc::constant(Q::from_integer(m.clone()));
+            let square = &gap * &gap;
+            let coeffs = |p: &Poly| p.univariate_coeffs(&name).unwrap_or_default();
+            (coeffs(square.numer()), coeffs(square.denom()))
+        })
+        .collect();
+    let split = split_univariate(
+        &name,
+        param.integer,
+        &inequalities,
+        &Interval::of_param(param),
+        HOLDS_FOR_DIGITS,
+    );
+    (split.everywhere() != Some(true)).then_some(split)
 }
 
 /// Turns `p ≠ 0` into `param ≠ root` conditions when p is univariate with rational roots.

@@ -6,6 +6,7 @@ use serde_json::{json, Map, Value};
 use crate::analysis::{Analysis, Finiteness, Moment, NumberReport, Requirement};
 
 use super::super::node::Node;
+use super::super::region::region_json;
 use super::super::{latex, text};
 use super::formula::{expr_node, inequality_strings, ratfunc_node, series_strings};
 use super::{prefactor_node, verdict_strings};
@@ -28,7 +29,10 @@ fn with_value(node: &Node, value: Option<&str>) -> Value {
 fn requirement_json(r: &Requirement) -> Value {
     let (t, l) = inequality_strings(&r.inequality);
     let (word, why) = verdict_strings(&r.verdict);
-    json!({ "text": t, "latex": l, "purpose": r.purpose, "status": word, "settled_by": why })
+    json!({
+        "text": t, "latex": l, "purpose": r.purpose, "status": word, "settled_by": why,
+        "holds_for": region_json(r.region.as_ref()),
+    })
 }
 
 fn finite_json(f: &Finiteness) -> Value {
@@ -86,6 +90,7 @@ fn moment_json(m: &Moment) -> Value {
         Value::Array(m.requirements.iter().map(requirement_json).collect()),
     );
     out.insert("finite".into(), finite_json(&m.finiteness));
+    out.insert("finite_for".into(), region_json(m.finite_for.as_ref()));
     number_fields(&mut out, m.value.as_ref());
     Value::Object(out)
 }
@@ -117,8 +122,16 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
     out.insert("tail".into(), tail.unwrap_or(Value::Null));
     let norm = &a.normalization;
     let mut n = Map::new();
-    let (st, sl) = series_strings(&norm.series);
-    n.insert("series".into(), json!({ "text": st, "latex": sl }));
+    n.insert(
+        "series".into(),
+        match &norm.series {
+            Some(series) => {
+                let (st, sl) = series_strings(series);
+                json!({ "text": st, "latex": sl })
+            }
+            None => Value::Null,
+        },
+    );
     n.insert(
         "closed_form".into(),
         norm.closed_form
@@ -135,6 +148,7 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
         Value::Array(norm.requirements.iter().map(requirement_json).collect()),
     );
     n.insert("finite".into(), finite_json(&norm.finiteness));
+    n.insert("finite_for".into(), region_json(norm.finite_for.as_ref()));
     n.insert("finite_support".into(), Value::Bool(norm.finite_support));
     number_fields(&mut n, norm.value.as_ref());
     n.insert(
@@ -155,6 +169,18 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
                 number_fields(&mut m, number.as_ref());
                 Value::Object(m)
             }
+            None => Value::Null,
+        },
+    );
+    n.insert(
+        "parts".into(),
+        match &norm.parts {
+            Some(p) => json!({
+                "finite_part": p.finite_part,
+                "tail_part": p.tail_part,
+                "tail_exact": p.tail_exact,
+                "tail_error_bound": p.tail_error_bound,
+            }),
             None => Value::Null,
         },
     );

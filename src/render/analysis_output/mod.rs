@@ -11,11 +11,12 @@ pub use json::analysis_json;
 use serde_json::{json, Value};
 
 use crate::analysis::{
-    Analysis, Finiteness, Inequality, Moment, NumberReport, Requirement, Verdict,
+    Analysis, Finiteness, Inequality, Moment, NumberReport, Region, Requirement, Verdict,
 };
 use formula::subscript;
 
 use super::node::Node;
+use super::region::{region_latex, region_text, region_words};
 use super::{latex, text, to_node};
 
 pub(super) fn verdict_strings(v: &Verdict) -> (&'static str, Option<&str>) {
@@ -31,6 +32,16 @@ fn requirement_text(r: &Requirement) -> String {
         return format!("{}: no — {why}", r.purpose);
     }
     let (t, _) = inequality_strings(&r.inequality);
+    if let (Verdict::Undecided, Some(region)) = (&r.verdict, &r.region) {
+        // `α > 0 (…; holds for α > 0, …)` says it twice: then only where it fails.
+        let (holds, fails, _) = region_words(region);
+        let words = if holds == t && !fails.is_empty() {
+            format!("fails for {fails}")
+        } else {
+            region_text(region, "holds", "fails")
+        };
+        return format!("{t}   ({}; {words})", r.purpose);
+    }
     let (word, why) = verdict_strings(&r.verdict);
     match why {
         Some(w) if !w.is_empty() => format!("{t}   ({}; {word}: {w})", r.purpose),
@@ -120,12 +131,13 @@ fn law_shape(a: &Analysis, law: &crate::analysis::Tail) -> String {
     format!("{}({k}) ~ {}", a.sequence, parts.join(" · "))
 }
 
-fn finiteness_word(f: &Finiteness) -> String {
-    match f {
-        Finiteness::Finite => "finite".into(),
-        Finiteness::Infinite(why) => format!("infinite ({why})"),
-        Finiteness::Undecided => "finite where the conditions below hold".into(),
-        Finiteness::Undefined(why) => format!("undefined ({why})"),
+fn finiteness_word(f: &Finiteness, finite_for: Option<&Region>) -> String {
+    match (f, finite_for) {
+        (Finiteness::Finite, _) => "finite".into(),
+        (Finiteness::Infinite(why), _) => format!("infinite ({why})"),
+        (Finiteness::Undecided, Some(region)) => region_text(region, "finite", "infinite"),
+        (Finiteness::Undecided, None) => "finite where the conditions below hold".into(),
+        (Finiteness::Undefined(why), _) => format!("undefined ({why})"),
     }
 }
 
@@ -175,12 +187,29 @@ pub fn analysis_text(a: &Analysis) -> String {
     }
     let norm = &a.normalization;
     let b = &norm.base_index;
-    let (series_text, _) = series_strings(&norm.series);
     let a_b = text::write(&base_term(a, b));
-    out += &format!(
-        "total        Σ_{{{index}≥{b}}} {}({index}) = {a_b} · {series_text}\n",
-        a.sequence
-    );
+    match &norm.series {
+        Some(series) => {
+            let (series_text, _) = series_strings(series);
+            out += &format!(
+                "total        Σ_{{{index}≥{b}}} {}({index}) = {a_b} · {series_text}\n",
+                a.sequence
+            );
+        }
+        None => {
+            out += &format!(
+                "total        Σ_{{{index}≥{b}}} {}({index}) over the pieces\n",
+                a.sequence
+            );
+        }
+    }
+    if let Some(p) = &norm.parts {
+        let tail = p.tail_part.as_deref().unwrap_or("∞");
+        out += &format!(
+            "  parts      {} (up to the last breakpoint) + {tail} (last piece), with {a_b} = 1\n",
+            p.finite_part
+        );
+    }
     if let Some((e, theorem)) = &norm.closed_form {
         let value = match expr_node(e) {
             sum @ Node::Sum(_) => format!("({})", text::write(&sum)),
@@ -194,7 +223,10 @@ pub fn analysis_text(a: &Analysis) -> String {
     for r in &norm.requirements {
         out += &format!("  condition  {}\n", requirement_text(r));
     }
-    out += &format!("  total is   {}\n", finiteness_word(&norm.finiteness));
+    out += &format!(
+        "  total is   {}\n",
+        finiteness_word(&norm.finiteness, norm.finite_for.as_ref())
+    );
     if let Some(v) = &norm.value {
         out += &format!(
             "  value      {}\n",
@@ -218,7 +250,10 @@ pub fn analysis_text(a: &Analysis) -> String {
 }
 
 fn moment_text(name: &str, m: &Moment) -> String {
-    let mut out = format!("{name:<13}{}\n", finiteness_word(&m.finiteness));
+    let mut out = format!(
+        "{name:<13}{}\n",
+        finiteness_word(&m.finiteness, m.finite_for.as_ref())
+    );
     if let Some((e, _)) = &m.closed_form {
         if !matches!(
             m.finiteness,
@@ -234,6 +269,17 @@ fn moment_text(name: &str, m: &Moment) -> String {
         out += &format!("  value      {}\n", number_text(v, ""));
     }
     out
+}
+
+/// `p/q` as `\frac{p}{q}`.
+fn latex_rational(q: &str) -> String {
+    match q.split_once('/') {
+        Some((n, d)) => match n.strip_prefix('-') {
+            Some(n) => format!("-\\frac{{{n}}}{{{d}}}"),
+            None => format!("\\frac{{{n}}}{{{d}}}"),
+        },
+        None => q.to_string(),
+    }
 }
 
 /// A LaTeX fragment (amsmath) with the tail law, the total and the moments.
@@ -287,8 +333,28 @@ pub fn analysis_latex(a: &Analysis) -> String {
     let norm = &a.normalization;
     let b = &norm.base_index;
     let a_b = latex::write(&base_term(a, b));
-    let (_, series) = series_strings(&norm.series);
-    let mut total = format!("  \\sum_{{{index} \\ge {b}}} {seq_k} &= {a_b}\\,{series}");
+    let mut total = match &norm.series {
+        Some(series) => format!(
+            "  \\sum_{{{index} \\ge {b}}} {seq_k} &= {a_b}\\,{}",
+            series_strings(series).1
+        ),
+        None => match (
+            &norm.value,
+            &norm.value.as_ref().and_then(|v| v.exact.clone()),
+        ) {
+            (_, Some(q)) => format!(
+                "  \\sum_{{{index} \\ge {b}}} {seq_k} &= {a_b}\\,{}",
+                latex_rational(q)
+            ),
+            (Some(v), None) => format!(
+                "  \\sum_{{{index} \\ge {b}}} {seq_k} &\\approx {a_b}\\,{}",
+                v.value
+            ),
+            (None, None) => {
+                format!("  \\sum_{{{index} \\ge {b}}} {seq_k} &= \\sum_{{\\text{{pieces}}}}")
+            }
+        },
+    };
     if let Some((e, _)) = &norm.closed_form {
         total += &format!(" = {a_b}\\,{}", wrap_sum(&expr_node(e)));
     }
@@ -297,13 +363,30 @@ pub fn analysis_latex(a: &Analysis) -> String {
         ("\\operatorname{E}", &a.mean),
         ("\\operatorname{Var}", &a.variance),
     ] {
+        // Where the ranges leave finiteness open, the line says for which values it holds.
+        let domain = match (&m.finiteness, &m.finite_for) {
+            (Finiteness::Undecided, Some(region)) => {
+                format!(" && \\text{{for }} {}", region_latex(region))
+            }
+            _ => String::new(),
+        };
         match (&m.finiteness, &m.closed_form) {
             (Finiteness::Infinite(_), _) => lines.push(format!("  {name}[{index}] &= \\infty")),
             (Finiteness::Undefined(_), _) => {}
             (_, Some((e, _))) => lines.push(format!(
-                "  {name}[{index}] &= {}",
+                "  {name}[{index}] &= {}{domain}",
                 latex::write(&expr_node(e))
             )),
+            // A piecewise model's moments are numbers (exact where every part is).
+            (_, None) if norm.series.is_none() && m.value.is_some() => {
+                let v = m.value.as_ref().expect("checked");
+                lines.push(match &v.exact {
+                    Some(q) if q.len() < 60 => {
+                        format!("  {name}[{index}] &= {}", latex_rational(q))
+                    }
+                    _ => format!("  {name}[{index}] &\\approx {}", v.value),
+                })
+            }
             _ => {}
         }
     }
@@ -319,8 +402,14 @@ pub fn analysis_latex(a: &Analysis) -> String {
             |r| !matches!(r.inequality, Inequality::Positive(ref e) if e.as_constant().is_some()),
         )
         .map(|r| {
+            let domain = match (&r.verdict, &r.region) {
+                (Verdict::Undecided, Some(region)) => {
+                    format!(", which holds for ${}$", region_latex(region))
+                }
+                _ => String::new(),
+            };
             format!(
-                "${}$ ({})",
+                "${}$ ({}{domain})",
                 inequality_strings(&r.inequality).1,
                 latex_purpose(&r.purpose)
             )

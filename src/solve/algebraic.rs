@@ -1,0 +1,394 @@
+//! Real algebraic numbers: a root of a squarefree rational polynomial, isolated in a rational
+//! interval by Sturm sequences and refined by bisection (Basu, Pollack, Roy, *Algorithms in
+//! Real Algebraic Geometry*, §10.2). Quadratic ones also carry their radical form.
+
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, Signed, Zero};
+
+use crate::algebra::Q;
+use rug::{ops::Pow, Rational};
+
+use crate::numeric::{rational_to_decimal, to_rug_rational};
+
+use super::ranges::{
+    count_with_chain, derivative, evaluate, remainder, sturm_chain, trim, Extended,
+};
+
+/// `rational + coefficient·√radicand`, radicand > 1 and free of small square factors.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Radical {
+    pub rational: Q,
+    pub coefficient: Q,
+    pub radicand: BigInt,
+}
+
+/// The only root of `poly` in the open interval (`low`, `high`); `poly` is squarefree and has
+/// no rational root, so neither end (nor any rational point) is a root.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Algebraic {
+    /// Coefficients, `poly[i]` multiplies x^i.
+    pub poly: Vec<Q>,
+    pub low: Q,
+    pub high: Q,
+    /// The radical form when `poly` is quadratic.
+    pub radical: Option<Radical>,
+    /// The value to the digits asked for, correctly rounded.
+    pub decimal: String,
+}
+
+fn monic(p: Vec<Q>) -> Vec<Q> {
+    let p = trim(p);
+    match p.last().cloned() {
+        Some(lead) => p.into_iter().map(|c| c / &lead).collect(),
+        None => p,
+    }
+}
+
+/// gcd of two univariate polynomials (Euclid), monic.
+fn gcd(a: &[Q], b: &[Q]) -> Vec<Q> {
+    let (mut a, mut b) = (trim(a.to_vec()), trim(b.to_vec()));
+    while !b.is_empty() {
+        // Monic remainders keep the coefficients from growing along the sequence.
+        let r = monic(remainder(&a, &b));
+        a = b;
+        b = r;
+    }
+    monic(a)
+}
+
+/// a / b for b dividing a exactly.
+fn quotient(a: &[Q], b: &[Q]) -> Vec<Q> {
+    let mut r = trim(a.to_vec());
+    let lead = b.last().expect("non-zero divisor").clone();
+    if r.len() < b.len() {
+        return Vec::new();
+    }
+    let mut q = vec![Q::zero(); r.len() - b.len() + 1];
+    while r.len() >= b.len() && !r.is_empty() {
+        let factor = r.last().unwrap() / &lead;
+        let offset = r.len() - b.len();
+        for (i, c) in b.iter().enumerate() {
+            r[offset + i] -= &factor * c;
+        }
+        q[offset] = factor;
+        r = trim(r);
+    }
+    trim(q)
+}
+
+/// The squarefree part p / gcd(p, p′).
+pub fn squarefree(p: &[Q]) -> Vec<Q> {
+    let p = trim(p.to_vec());
+    if p.len() <= 2 {
+        return p;
+    }
+    let g = gcd(&p, &derivative(&p));
+    if g.len() <= 1 {
+        p
+    } else {
+        quotient(&p, &g)
+    }
+}
+
+/// A rational bound on the absolute value of every root (Cauchy: 1 + max |a_i / a_n|).
+fn root_bound(p: &[Q]) -> Q {
+    let lead = p.last().expect("non-zero polynomial").abs();
+    let max = p[..p.len() - 1]
+        .iter()
+        .map(|c| c.abs() / &lead)
+        .max()
+        .unwrap_or_else(Q::zero);
+    max + Q::one()
+}
+
+/// The roots of `p` (squarefree, without rational roots) strictly between `a` and `b`, each
+/// in its own rational interval, in increasing order.
+pub fn isolate(p: &[Q], a: &Extended, b: &Extended, digits: u32) -> Vec<Algebraic> {
+    if p.len() <= 1 {
+        return Vec::new();
+    }
+    let bound = root_bound(p);
+    let finite = |x: &Extended, fallback: Q| match x {
+        Extended::Finite(v) => v.clone(),
+        _ => fallback,
+    };
+    let (low, high) = (finite(a, -bound.clone()), finite(b, bound));
+    let chain = sturm_chain(p);
+    let mut out = Vec::new();
+    let mut stack = vec![(low, high)];
+    while let Some((lo, hi)) = stack.pop() {
+        let count = count_with_chain(
+            &chain,
+            &Extended::Finite(lo.clone()),
+            &Extended::Finite(hi.clone()),
+        );
+        match count {
+            0 => {}
+            1 => out.push(Algebraic::new(p.to_vec(), lo, hi, digits)),
+            _ => {
+                let mid = (&lo + &hi) / Q::from_integer(2.into());
+                stack.push((mid.clone(), hi));
+                stack.push((lo, mid));
+            }
+        }
+    }
+    out.sort_by(|x, y| x.low.cmp(&y.low));
+    out
+}
+
+fn sign(q: &Q) -> i32 {
+    if q.is_zero() {
+        0
+    } else if q.is_positive() {
+        1
+    } else {
+        -1
+    }
+}
+
+impl Algebraic {
+    fn new(poly: Vec<Q>, low: Q, high: Q, digits: u32) -> Algebraic {
+        let mut a = Algebraic {
+            poly,
+            low,
+            high,
+            radical: None,
+            decimal: String::new(),
+        };
+        a.radical = a.radical_form();
+        if digits > 0 {
+            a.decimal = a.decimal_digits(digits);
+        }
+        a
+    }
+
+    /// The same number as a root of `factor`, a squarefree polynomial without rational roots
+    /// that changes sign on the isolating interval (a factor of `poly` that vanishes there),
+    /// written with coprime integer coefficients and a positive leading one.
+    pub fn with_factor(&self, factor: &[Q], digits: u32) -> Algebraic {
+        let lead = factor.last().expect("non-zero factor").clone();
+        let monic: Vec<Q> = factor.iter().map(|c| c / &lead).collect();
+        let lcm = monic
+            .iter()
+            .fold(BigInt::one(), |acc, c| acc.lcm(c.denom()));
+        let integral: Vec<BigInt> = monic
+            .iter()
+            .map(|c| (c * Q::from_integer(lcm.clone())).to_integer())
+            .collect();
+        let content = integral
+            .iter()
+            .fold(BigInt::zero(), |acc, c| acc.gcd(c))
+            .max(BigInt::one());
+        let poly = integral
+            .into_iter()
+            .map(|c| Q::from_integer(c / &content))
+            .collect();
+        Algebraic::new(poly, self.low.clone(), self.high.clone(), digits)
+    }
+
+    /// Whether `p` changes sign across the isolating interval.
+    pub fn changes_sign(&self, p: &[Q]) -> bool {
+        sign(&evaluate(p, &self.low)) * sign(&evaluate(p, &self.high)) < 0
+    }
+
+    /// Halves the isolating interval.
+    pub fn refine(&mut self) {
+        let mid = (&self.low + &self.high) / Q::from_integer(2.into());
+        if sign(&evaluate(&self.poly, &mid)) == sign(&evaluate(&self.poly, &self.low)) {
+            self.low = mid;
+        } else {
+            self.high = mid;
+        }
+    }
+
+    /// Refines until `q` lies outside the closed interval; then whether the number is below
+    /// `q`. Terminates because the number is irrational.
+    pub fn is_below(&mut self, q: &Q) -> bool {
+        while self.low <= *q && *q <= self.high {
+            self.refine();
+        }
+        self.high < *q
+    }
+
+    /// ⌊x⌋ (x is irrational, so ⌈x⌉ = ⌊x⌋ + 1).
+    pub fn floor(&mut self) -> BigInt {
+        loop {
+            // The first integer above `low`: once it is separated from the number, either
+            // the number lies below it (and above `low`), or `low` has passed it.
+            let next = self.low.floor() + Q::one();
+            if self.is_below(&next) {
+                return (next - Q::one()).to_integer();
+            }
+        }
+    }
+
+    /// The value to `digits` significant digits, correctly rounded (`isolate` with
+    /// `digits` = 0 leaves it empty). Bisection in GMP rationals: the same steps as
+    /// [`Algebraic::refine`], an order of magnitude faster than `num-rational` here.
+    pub fn decimal_digits(&self, digits: u32) -> String {
+        let coeffs: Vec<Rational> = self.poly.iter().map(to_rug_rational).collect();
+        let sign_at = |x: &Rational| -> i32 {
+            let mut acc = Rational::new();
+            for c in coeffs.iter().rev() {
+                acc *= x;
+                acc += c;
+            }
+            acc.cmp0() as i32
+        };
+        let (mut low, mut high) = (to_rug_rational(&self.low), to_rug_rational(&self.high));
+        let low_sign = sign_at(&low);
+        let halve = |low: &mut Rational, high: &mut Rational| {
+            let mid = Rational::from(&*low + &*high) / 2u32;
+            if sign_at(&mid) == low_sign {
+                *low = mid;
+            } else {
+                *high = mid;
+            }
+        };
+        // Off zero (the number is irrational), then narrow to a relative width of
+        // 10^−(digits+2) before any decimal is formatted.
+        while low.cmp0() != high.cmp0() || low.cmp0() == std::cmp::Ordering::Equal {
+            halve(&mut low, &mut high);
+        }
+        let scale = Rational::from(rug::Integer::from(10).pow(digits + 2));
+        loop {
+            let width = Rational::from(&high - &low) * &scale;
+            let size = Rational::from(low.abs_ref()).min(Rational::from(high.abs_ref()));
+            if width <= size {
+                break;
+            }
+            halve(&mut low, &mut high);
+        }
+        // Both ends rounding alike proves the rounding of the number between them.
+        for _ in 0..(4 * digits + 400) {
+            let lo = rational_to_decimal(&low, digits);
+            let hi = rational_to_decimal(&high, digits);
+            if lo == hi {
+                return lo;
+            }
+            halve(&mut low, &mut high);
+        }
+        rational_to_decimal(&(Rational::from(&low + &high) / 2u32), digits)
+    }
+
+    /// For a quadratic a·x² + b·x + c: (−b ± √(b² − 4ac))/(2a) with the square part of the
+    /// discriminant taken out (trial division by small primes).
+    fn radical_form(&self) -> Option<Radical> {
+        if self.poly.len() != 3 {
+            return None;
+        }
+        // Integer coefficients: multiply by the lcm of the denominators.
+        let lcm = self
+            .poly
+            .iter()
+            .fold(BigInt::one(), |acc, c| acc.lcm(c.denom()));
+        let [c, b, a] =
+            [0, 1, 2].map(|i| (&self.poly[i] * Q::from_integer(lcm.clone())).to_integer());
+        let discriminant: BigInt = &b * &b - BigInt::from(4) * &a * &c;
+        let (square_root, radicand) = split_square(&discriminant);
+        let two_a = Q::from_integer(BigInt::from(2) * &a);
+        let center = Q::from_integer(-b) / &two_a;
+        let spread = (Q::from_integer(square_root) / &two_a).abs();
+        let mut probe = self.clone();
+        let above = !probe.is_below(&center);
+        Some(Radical {
+            rational: center,
+            coefficient: if above { spread } else { -spread },
+            radicand,
+        })
+    }
+}
+
+/// n = s²·m with m free of the square of any prime below 10⁴ (enough for the
+/// discriminants met in practice; a larger square left in m only makes the form longer).
+fn split_square(n: &BigInt) -> (BigInt, BigInt) {
+    let mut m = n.clone();
+    let mut s = BigInt::one();
+    let mut p = BigInt::from(2);
+    let limit = BigInt::from(10_000);
+    while p < limit && &p * &p <= m {
+        let square = &p * &p;
+        while (&m % &square).is_zero() {
+            m /= &square;
+            s *= &p;
+        }
+        p += 1;
+    }
+    (s, m)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::q;
+
+    #[test]
+    fn the_roots_of_x_squared_minus_two_are_plus_and_minus_root_two() {
+        // x² − 2 has the roots ±√2 = ±1.41421356237309504880… (OEIS A002193).
+        let p = [q(-2, 1), q(0, 1), q(1, 1)];
+        let roots = isolate(&p, &Extended::MinusInfinity, &Extended::PlusInfinity, 20);
+        assert_eq!(roots.len(), 2);
+        assert_eq!(roots[1].decimal, "1.4142135623730950488");
+        assert_eq!(roots[0].decimal, "-1.4142135623730950488");
+        let r = roots[1].radical.clone().unwrap();
+        assert_eq!(
+            (r.rational, r.coefficient, r.radicand),
+            (q(0, 1), q(1, 1), 2.into())
+        );
+        let mut x = roots[1].clone();
+        assert_eq!(x.floor(), 1.into());
+        assert!(x.is_below(&q(3, 2)) && !x.is_below(&q(7, 5)));
+    }
+
+    #[test]
+    fn golden_ratio_and_a_cubic() {
+        // x² − x − 1: (1 + √5)/2 = 1.6180339887498948482… (OEIS A001622).
+        let p = [q(-1, 1), q(-1, 1), q(1, 1)];
+        let roots = isolate(&p, &Extended::Finite(q(0, 1)), &Extended::PlusInfinity, 20);
+        assert_eq!(roots.len(), 1);
+        assert_eq!(roots[0].decimal, "1.6180339887498948482");
+        let r = roots[0].radical.clone().unwrap();
+        assert_eq!(
+            (r.rational, r.coefficient, r.radicand),
+            (q(1, 2), q(1, 2), 5.into())
+        );
+        // x³ − 2x − 5: Wallis's cubic, root 2.0945514815423265915 (Whittaker & Robinson,
+        // *The Calculus of Observations*, §44).
+        let p = [q(-5, 1), q(-2, 1), q(0, 1), q(1, 1)];
+        let roots = isolate(&p, &Extended::MinusInfinity, &Extended::PlusInfinity, 20);
+        assert_eq!(roots.len(), 1);
+        assert_eq!(roots[0].decimal, "2.0945514815423265915");
+        assert!(roots[0].radical.is_none());
+    }
+
+    #[test]
+    fn floor_of_a_root_just_below_an_interval_end() {
+        // √3.9 = 1.9748… isolated in (0, 2): the end 2 never moves, the floor is still 1.
+        let p = [q(-39, 10), q(0, 1), q(1, 1)];
+        let mut roots = isolate(
+            &p,
+            &Extended::Finite(q(0, 1)),
+            &Extended::Finite(q(2, 1)),
+            5,
+        );
+        assert_eq!(roots[0].decimal, "1.9748");
+        assert_eq!(roots[0].floor(), 1.into());
+        let p = [q(-41, 10), q(0, 1), q(1, 1)];
+        let mut roots = isolate(
+            &p,
+            &Extended::Finite(q(2, 1)),
+            &Extended::Finite(q(3, 1)),
+            5,
+        );
+        assert_eq!(roots[0].floor(), 2.into());
+    }
+
+    #[test]
+    fn squarefree_parts() {
+        // (x − 1)²(x + 2) → (x − 1)(x + 2) = x² + x − 2
+        let p = [q(2, 1), q(-3, 1), q(0, 1), q(1, 1)];
+        assert_eq!(squarefree(&p), vec![q(-2, 1), q(1, 1), q(1, 1)]);
+        assert_eq!(split_square(&BigInt::from(72)), (6.into(), 2.into()));
+    }
+}
