@@ -209,3 +209,19 @@ fn work_beyond_the_budget_is_refused_with_the_estimate() {
     assert_eq!(solve.status.code(), Some(2));
     assert!(text(&solve.stderr).contains("20 tail corrections"));
 }
+
+/// cargo-fuzz `parse` target, finding 1: a later piece of a piecewise rate without a range
+/// panicked ("later pieces have ranges") in model::rates.
+#[test]
+fn a_later_rate_piece_without_a_range_is_refused() {
+    let model = "param lambda, mu > 0\nparam c integer >= 1\nbirth(k) = lambda\n\
+                 death(k) = k mu     for 0 <= k <= c\ndeath(k) = c mu     fontegerc";
+    let out = with_stdin(&["solve", "-"], model);
+    assert_eq!(out.status.code(), Some(2), "{}", text(&out.stderr));
+    assert!(
+        text(&out.stderr).contains("has no range"),
+        "{}",
+        text(&out.stderr)
+    );
+    telescope::fuzzing::parse_bytes(model.as_bytes());
+}
