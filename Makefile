@@ -47,3 +47,20 @@ report-check: setup
 	done
 	TELESCOPE_REPORT_CHECK=1 cargo test --test report_browser -- --nocapture
 	@echo "screenshots: target/report-check/*.png"
+
+# Fuzzing (fuzz/, its own workspace). cargo-fuzz needs nightly flags: on a stable toolchain
+# RUSTC_BOOTSTRAP=1 allows them, and --sanitizer none avoids AddressSanitizer, which needs a
+# nightly standard library. FUZZ_RUNS executions per target (default 10^6), new inputs go to
+# fuzz/work/TARGET, findings to fuzz/artifacts/TARGET.
+FUZZ_RUNS ?= 1000000
+FUZZ_TARGETS ?= parse model claim
+
+.PHONY: fuzz
+fuzz: setup
+	@command -v cargo-fuzz >/dev/null 2>&1 || cargo install cargo-fuzz --locked
+	@for t in $(FUZZ_TARGETS); do \
+	  mkdir -p fuzz/work/$$t; \
+	  echo "fuzzing $$t for $(FUZZ_RUNS) runs"; \
+	  RUSTC_BOOTSTRAP=1 cargo fuzz run --fuzz-dir fuzz --sanitizer none $$t fuzz/work/$$t fuzz/corpus/$$t -- \
+	    -runs=$(FUZZ_RUNS) -timeout=10 -max_len=512 -print_final_stats=1 || exit 1; \
+	done

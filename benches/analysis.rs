@@ -6,7 +6,9 @@ use std::collections::BTreeMap;
 
 use criterion::{criterion_group, criterion_main, Criterion};
 
-use telescope::analysis::{analyse, moment_sums, AnalysisRequest, NumericRule, RisingForm};
+use telescope::analysis::{
+    analyse, moment_sums, tail_law, AnalysisRequest, NumericRule, RisingForm,
+};
 use telescope::model::build_problem;
 use telescope::solve::solve;
 
@@ -40,9 +42,33 @@ fn normalisation(c: &mut Criterion) {
     }
 }
 
+/// Symbolic tail corrections c₁ … c₁₂ of the citation rule (one parameter): the law alone,
+/// and the whole `solve --terms 12` report (analysis and text rendering). Goal: under 1 s.
+fn tail_corrections(c: &mut Criterion) {
+    let problem = build_problem(CITATION).unwrap();
+    let form = RisingForm::from_ratio(&problem.ratio);
+    c.bench_function("tail/citation/law_12_terms", |b| {
+        b.iter(|| tail_law(&form, &problem.base_index(), 12))
+    });
+    let solution = solve(&problem, &BTreeMap::new()).unwrap();
+    let request = AnalysisRequest {
+        terms: 12,
+        digits: 30,
+        normalize: false,
+    };
+    c.bench_function("tail/citation/analysis_text_12_terms", |b| {
+        b.iter(|| {
+            let analysis = analyse(&problem, &solution, &request).unwrap();
+            telescope::render::analysis_output::analysis_text(&analysis)
+        })
+    });
+}
+
+const CITATION: &str = "n(k)/n(k-1) = (1-rho)(k-1) / (1 + (1-rho) k)   for k >= 2";
+
 criterion_group! {
     name = benches;
     config = Criterion::default().sample_size(10);
-    targets = normalisation
+    targets = normalisation, tail_corrections
 }
 criterion_main!(benches);

@@ -14,11 +14,13 @@
 
 pub mod algebra;
 pub mod analysis;
+pub mod budget;
 pub mod check;
 pub mod closed_form;
 pub mod data;
 pub mod diagnostic;
 pub mod fit;
+pub mod fuzzing;
 pub mod html_report;
 pub mod law;
 pub mod model;

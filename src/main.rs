@@ -4,7 +4,10 @@ use std::process::ExitCode;
 
 use clap::{Parser, Subcommand, ValueEnum};
 
+use num_traits::ToPrimitive;
+
 use telescope::analysis::{analyse, AnalysisRequest};
+use telescope::budget::{self, Budget, Estimate};
 use telescope::html_report;
 use telescope::piecewise::build_piecewise_table;
 use telescope::probability::{analyse_model, normalized_piecewise_table};
@@ -21,6 +24,10 @@ use telescope::table::{build_normalized_table, build_table, TableRequest};
 struct Cli {
     #[command(subcommand)]
     command: Command,
+    /// Time budget in seconds: work estimated to take longer is refused before it starts
+    /// (default 10).
+    #[arg(long, global = true, value_name = "SECONDS")]
+    max_seconds: Option<f64>,
 }
 
 #[derive(Subcommand)]
@@ -234,17 +241,25 @@ enum TableFormat {
 
 /// Largest `--digits` accepted.
 const MAX_DIGITS: u32 = 10_000;
-/// Largest `--terms` accepted: the symbolic corrections c_n grow quickly with n when the
-/// shifts hold parameters (--terms 8 takes seconds on a one-parameter rule, 12 a minute).
-const MAX_TERMS: usize = 6;
+/// Largest `--terms` accepted: c_n is built over one common denominator (analysis::tail), so
+/// --terms 12 on the citation rule takes 0.3 s and 20 a few seconds.
+const MAX_TERMS: usize = 20;
 /// Largest `--digits` for `solve`, whose sums get slower with the digits (500 digits take
 /// about a second, 1000 about eight).
 const MAX_SOLVE_DIGITS: u32 = 500;
 
+/// Refuses work estimated beyond the budget (exit 2, with the estimate and `--max-seconds`).
+fn admit(budget: Budget, estimate: &Estimate) -> Result<(), Error> {
+    budget
+        .admit(estimate)
+        .map_err(|over| Error::Usage(over.to_string()))
+}
+
 fn run(cli: Cli) -> Result<String, Error> {
+    let budget = Budget::with_max_seconds(cli.max_seconds);
     match cli.command {
         // `main` calls `run_check` itself, to turn a refuted claim into exit code 1.
-        command @ Command::Check { .. } => run_check(command).map(|(out, _)| out),
+        command @ Command::Check { .. } => run_check(command, budget).map(|(out, _)| out),
         Command::Solve {
             input,
             params,
@@ -275,6 +290,12 @@ fn run(cli: Cli) -> Result<String, Error> {
             let input = session::read_input(&input)?;
             let model = session::load_model(&input)?;
             let values = session::parse_values_for(&model.params, &params)?;
+            let numeric = model.params.iter().all(|p| values.contains_key(&p.name));
+            let free = model.params.len() - values.len().min(model.params.len());
+            admit(
+                budget,
+                &Estimate::solve(terms, free, numeric.then_some(digits)),
+            )?;
             if model.is_piecewise()
                 && telescope::piecewise::symbolic::has_symbolic_breakpoints(&model, &values)
             {
@@ -443,6 +464,14 @@ fn run(cli: Cli) -> Result<String, Error> {
             let (from, to) = session::parse_k_range(&k)?;
             let input = session::read_input(&input)?;
             let model = session::load_model(&input)?;
+            let rows = (&to - &from + 1u32).to_u64().unwrap_or(u64::MAX);
+            let checked = if check_all { rows } else { 64.min(rows) };
+            let factors = model.pieces.iter().map(|p| p.ratio.factors.len()).max();
+            let mut estimate = Estimate::table(rows, digits, checked, factors.unwrap_or(1));
+            if normalize {
+                estimate = estimate.and(Estimate::solve(0, 0, Some(digits + 5)));
+            }
+            admit(budget, &estimate)?;
             let values = session::parse_values_for(&model.params, &params)?;
             let base_value = session::base_value(&model, &values, base.as_deref())?;
             let solved = session::run_solve_model(&input, &model, &values)?;
@@ -554,7 +583,7 @@ fn run_fit(
 }
 
 /// `telescope check`: the report, and whether the claim holds (proved or holds numerically).
-fn run_check(command: Command) -> Result<(String, bool), Error> {
+fn run_check(command: Command, budget: Budget) -> Result<(String, bool), Error> {
     use telescope::check::{check_claim, CheckError, CheckRequest, Verdict, MIN_DIGITS};
     let Command::Check {
         input,
@@ -575,6 +604,9 @@ fn run_check(command: Command) -> Result<(String, bool), Error> {
     let input = session::read_input(&input)?;
     let problem = session::load_problem(&input)?;
     let values = session::parse_values(&problem, &params)?;
+    // Three points per free parameter (check::points), or the one point of the values.
+    let free = problem.params.len().saturating_sub(values.len());
+    admit(budget, &Estimate::check(3 * free.max(1), digits))?;
     let base = base
         .map(|b| session::parse_value("--base", &b))
         .transpose()?;
@@ -610,6 +642,7 @@ fn pretty(v: &serde_json::Value) -> String {
 }
 
 fn main() -> ExitCode {
+    budget::enable_progress(std::io::IsTerminal::is_terminal(&std::io::stderr()));
     let cli = match Cli::try_parse() {
         Ok(cli) => cli,
         Err(e) => {
@@ -619,7 +652,7 @@ fn main() -> ExitCode {
         }
     };
     let outcome = match cli.command {
-        Command::Check { .. } => run_check(cli.command),
+        Command::Check { .. } => run_check(cli.command, Budget::with_max_seconds(cli.max_seconds)),
         _ => run(cli).map(|out| (out, true)),
     };
     match outcome {

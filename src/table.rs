@@ -210,7 +210,12 @@ pub(crate) fn fill_rows(
     };
     let mut max_rel = Float::new(64);
     let mut next_sample = 0usize;
+    let expected = crate::budget::Estimate::table(rows, request.digits, sample.len() as u64, 2);
+    let progress = crate::budget::Progress::new("table rows", rows, expected.seconds);
     for offset in 0..rows {
+        if offset % 1024 == 1023 {
+            progress.inc(1024);
+        }
         if offset > 0 {
             source.step().map_err(|e| direct_error(e, here))?;
         }

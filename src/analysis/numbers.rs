@@ -78,6 +78,10 @@ fn derived(sums: &MomentSums) -> (Option<Bounded>, Option<Bounded>) {
     let Some(s0) = s0 else {
         return (None, None);
     };
+    // The terms cancel (or cannot be told from cancelling): S1/S0 has no value.
+    if total_vanishes(s0) {
+        return (None, None);
+    }
     let prec = s0.value.prec();
     let mean = s1.as_ref().map(|s1| {
         if let (Some(a), Some(b)) = (&s1.exact, &s0.exact) {
@@ -126,6 +130,15 @@ fn derived(sums: &MomentSums) -> (Option<Bounded>, Option<Bounded>) {
         _ => None,
     };
     (mean, variance)
+}
+
+/// True when the total is 0, or its error bound does not exclude 0: the mean S1/S0 and the
+/// normalising a(b) = 1/S0 are then undefined (e.g. a(k)/a(k−1) = k − 3 from k = 2: 1 − 1 + 0).
+pub(super) fn total_vanishes(total: &Bounded) -> bool {
+    match &total.exact {
+        Some(q) => *q == 0,
+        None => total.value.is_zero() || Float::with_val(64, total.value.abs_ref()) <= total.error,
+    }
 }
 
 fn good_enough(b: &Option<Bounded>, digits: u32) -> bool {
@@ -225,6 +238,19 @@ impl Numbers {
                 SumFailure::Divergent(why) | SumFailure::Unsupported(why) => why.clone(),
             });
         }
+        let zero_total = self
+            .closed_total
+            .as_ref()
+            .or(self.total.as_ref())
+            .is_some_and(total_vanishes);
+        if zero_total {
+            let why = "the terms sum to 0, and the moments divide by the total";
+            for m in [&mut *mean, &mut *variance] {
+                if !matches!(m.finiteness, Finiteness::Infinite(_)) {
+                    m.finiteness = Finiteness::Undefined(why.into());
+                }
+            }
+        }
         let method = self.sums_method.clone().unwrap_or_default();
         let theorem = normalization
             .closed_form
@@ -252,6 +278,14 @@ impl Numbers {
             digits,
         );
         if let Some(total) = self.closed_total.as_ref().or(self.total.as_ref()) {
+            if zero_total {
+                if normalization.base_value.is_some() {
+                    normalization.base_value = None;
+                    normalization.numeric_note =
+                        Some("the total is 0, so no a(b) makes it 1".into());
+                }
+                return;
+            }
             if let Some((expr, _)) = &normalization.base_value {
                 let prec = total.value.prec();
                 let inv = match &total.exact {

@@ -45,6 +45,8 @@ pub enum Finiteness {
     Finite,
     Infinite(String),
     Undecided,
+    /// Finite sums, but the quantity divides by a total that is 0.
+    Undefined(String),
 }
 
 /// A number to `digits` digits with its provenance.
@@ -404,6 +406,12 @@ pub fn normalizing_base_value(
             }
         }
     };
+    if super::numbers::total_vanishes(&total) {
+        return Err(fail(
+            "--normalize: the total is 0 (the terms cancel), so no a(b) makes it 1".into(),
+        )
+        .with_help("a sequence whose terms sum to 0 is not a distribution"));
+    }
     let prec = total.value.prec();
     let base = match &total.exact {
         Some(q) if *q != 0 => Bounded::exact(Rational::from(q.recip_ref()), prec),

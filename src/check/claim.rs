@@ -140,6 +140,7 @@ pub struct ClaimContext<'a> {
 /// Parses and resolves a claim. Spans are byte offsets into `text`.
 pub fn read_claim(text: &str, context: &ClaimContext) -> Result<Claim, Diagnostic> {
     let expr = crate::syntax::parse_expr(text)?;
+    crate::model::judge_size(&expr)?;
     resolve(&expr, context)
 }
 

@@ -123,6 +123,7 @@ impl RuleStatement<'_> {
 /// base term, and the parameters.
 pub fn build_model(text: &str) -> Result<Model, Diagnostic> {
     let parsed = syntax::parse_model(text)?;
+    super::size::judge_model(&parsed)?;
     let mut declared: Vec<Param> = Vec::new();
     let mut rules: Vec<RuleStatement> = Vec::new();
     let mut rate_statements: Vec<RateStatement> = Vec::new();

@@ -12,6 +12,7 @@ mod normal_form;
 mod piecewise;
 mod problem;
 mod rates;
+mod size;
 
 pub use build::{
     build_model, build_problem, DEFAULT_FIRST_INDEX, DEFAULT_SEQUENCE, RATES_SEQUENCE,
@@ -24,3 +25,4 @@ pub use expr::{
 pub use linear::{LinearForm, TermAt};
 pub use normal_form::normal_form;
 pub use problem::{Boundary, Model, Param, Piece, Problem, ResolvedPiece};
+pub use size::{judge_model, judge_size, MAX_DEGREE};

@@ -124,6 +124,19 @@ pub fn rate_pieces(
         )
         .with_help("write the rule's pieces as ratio rules instead, one per range"));
     }
+    // A rate in several pieces needs a range on every piece after the first (a fuzz finding:
+    // `death(k) = c mu` without `for k > c` after a ranged piece).
+    for (kind, parts) in [("birth", &births), ("death", &deaths)] {
+        if let Some(part) = parts.iter().skip(1).find(|p| p.first.is_none()) {
+            return Err(Diagnostic::new(
+                format!("this {kind}({index}) follows another piece of {kind}({index}) but has no range"),
+                part.statement.span.clone(),
+            )
+            .with_help(format!(
+                "say where it holds, e.g. `for {index} > c` after `for 0 <= {index} <= c`"
+            )));
+        }
+    }
     let start = births[0].first.clone().unwrap_or_else(RatFunc::zero);
     let first_state = &start + &RatFunc::one();
     if let Some(first) = &deaths[0].first {

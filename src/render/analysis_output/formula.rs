@@ -68,6 +68,30 @@ pub fn ratfunc_node(r: &RatFunc) -> Node {
     }
 }
 
+/// Highest degree split at its rational roots for display (beyond it, only powers of one
+/// linear factor are recognised).
+const MAX_FACTORED_DEGREE: usize = 8;
+
+/// Whether `Σ c_i x^i` (degree n) is `c_n (x − r)^n`, with r = −c_{n−1}/(n c_n) (the mean
+/// of the roots); checked exactly by the binomial theorem.
+fn is_linear_power(coeffs: &[Q]) -> bool {
+    let n = coeffs.len() - 1;
+    let lead = &coeffs[n];
+    let r = -(&coeffs[n - 1] / (lead * Q::from_integer(n.into())));
+    // c_j = lead · C(n, j) · (−r)^(n−j)
+    let mut expected = lead.clone();
+    let mut ok = true;
+    for j in (0..n).rev() {
+        // C(n, j) = C(n, j+1) · (j+1)/(n−j)
+        expected = &expected * -&r * Q::new((j + 1).into(), (n - j).into());
+        if expected != coeffs[j] {
+            ok = false;
+            break;
+        }
+    }
+    ok
+}
+
 /// `p = scale · Π factor^multiplicity`: a common monomial split off, then a univariate rest
 /// split at its rational roots into integer linear factors.
 fn factored(p: &Poly) -> (Q, Vec<(Poly, u32)>) {
@@ -109,7 +133,13 @@ fn factored(p: &Poly) -> (Q, Vec<(Poly, u32)>) {
         .iter()
         .fold(Poly::one(), |acc, (f, m)| &acc * &f.pow(*m));
     match coeffs {
-        Some((var, coeffs)) if rest.total_degree() > 1 => {
+        // Sturm chains (and square-free parts) of long polynomials with large coefficients
+        // cost seconds (the numerator of c₁₂ of a one-parameter rule has degree 24): those
+        // are split only when they are a power of one linear factor, a cheap exact test.
+        Some((var, coeffs))
+            if rest.total_degree() > 1
+                && (coeffs.len() <= MAX_FACTORED_DEGREE + 1 || is_linear_power(&coeffs)) =>
+        {
             let (roots, cofactor) = rational_roots(&coeffs);
             let x = Poly::var(&var);
             for (root, multiplicity) in roots {

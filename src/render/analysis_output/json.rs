@@ -39,7 +39,7 @@ fn finite_json(f: &Finiteness) -> Value {
     match f {
         Finiteness::Finite => Value::Bool(true),
         Finiteness::Infinite(_) => Value::Bool(false),
-        Finiteness::Undecided => Value::Null,
+        Finiteness::Undecided | Finiteness::Undefined(_) => Value::Null,
     }
 }
 

@@ -137,6 +137,7 @@ fn finiteness_word(f: &Finiteness, finite_for: Option<&Region>) -> String {
         (Finiteness::Infinite(why), _) => format!("infinite ({why})"),
         (Finiteness::Undecided, Some(region)) => region_text(region, "finite", "infinite"),
         (Finiteness::Undecided, None) => "finite where the conditions below hold".into(),
+        (Finiteness::Undefined(why), _) => format!("undefined ({why})"),
     }
 }
 
@@ -254,7 +255,10 @@ fn moment_text(name: &str, m: &Moment) -> String {
         finiteness_word(&m.finiteness, m.finite_for.as_ref())
     );
     if let Some((e, _)) = &m.closed_form {
-        if !matches!(m.finiteness, Finiteness::Infinite(_)) {
+        if !matches!(
+            m.finiteness,
+            Finiteness::Infinite(_) | Finiteness::Undefined(_)
+        ) {
             out += &format!("  closed form  {}\n", text::write(&expr_node(e)));
         }
     }
@@ -368,6 +372,7 @@ pub fn analysis_latex(a: &Analysis) -> String {
         };
         match (&m.finiteness, &m.closed_form) {
             (Finiteness::Infinite(_), _) => lines.push(format!("  {name}[{index}] &= \\infty")),
+            (Finiteness::Undefined(_), _) => {}
             (_, Some((e, _))) => lines.push(format!(
                 "  {name}[{index}] &= {}{domain}",
                 latex::write(&expr_node(e))

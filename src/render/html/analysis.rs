@@ -267,6 +267,7 @@ fn finiteness_words(f: &Finiteness) -> String {
         Finiteness::Finite => "finite".into(),
         Finiteness::Infinite(why) => format!("infinite ({why})"),
         Finiteness::Undecided => "finite where the conditions hold".into(),
+        Finiteness::Undefined(why) => format!("undefined ({why})"),
     }
 }
 

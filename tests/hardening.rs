@@ -1,0 +1,227 @@
+//! Regression tests for inputs that once panicked or ran for minutes (issue 13: the first
+//! outside fuzz run, and the proptest and cargo-fuzz findings since). Each input must give an
+//! answer or a clear refusal with exit code 2 — never a panic (exit 101) or a hang.
+
+mod common;
+
+use std::io::Write;
+use std::process::{Command, Output, Stdio};
+
+use telescope::analysis::{analyse, AnalysisRequest, Finiteness};
+use telescope::model::build_problem;
+use telescope::solve::solve;
+
+/// Runs the binary with `input` on standard input.
+fn with_stdin(args: &[&str], input: &str) -> Output {
+    let mut child = Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(args)
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .expect("binary runs");
+    // A usage error exits before reading: a closed pipe is not the test's concern.
+    let _ = child.stdin.take().unwrap().write_all(input.as_bytes());
+    child.wait_with_output().unwrap()
+}
+
+fn text(bytes: &[u8]) -> String {
+    String::from_utf8_lossy(bytes).into_owned()
+}
+
+/// Supports that end after one or two terms whose terms cancel: the total is 0 and the
+/// moments, which divide by it, are undefined (they once divided by zero in rug).
+#[test]
+fn short_supports_with_a_zero_total_do_not_panic() {
+    for rule in [
+        "a(k)/a(k-1) = k-3",              // a(1) = 1, a(2) = -1, a(3) = 0
+        "a(k)/a(k-1) = (k-1) for k >= 0", // a(-1) = 1, a(0) = -1, a(1) = 0
+    ] {
+        let out = with_stdin(&["solve", "-"], rule);
+        assert_eq!(out.status.code(), Some(0), "{rule}: {}", text(&out.stderr));
+        let stdout = text(&out.stdout);
+        assert!(stdout.contains("value      0 exactly"), "{stdout}");
+        assert!(stdout.contains("mean         undefined"), "{stdout}");
+        let json = with_stdin(&["solve", "-", "--format", "json"], rule);
+        assert_eq!(json.status.code(), Some(0));
+        let v: serde_json::Value = serde_json::from_slice(&json.stdout).unwrap();
+        assert!(v["mean"]["finite"].is_null() && v["mean"]["value"].is_null());
+        // No a(b) makes a zero total 1.
+        let table = with_stdin(&["table", "-", "--normalize", "--k", "0..3"], rule);
+        assert_eq!(table.status.code(), Some(2), "{}", text(&table.stderr));
+        assert!(text(&table.stderr).contains("the total is 0"));
+        let solve = with_stdin(&["solve", "-", "--normalize"], rule);
+        assert_eq!(solve.status.code(), Some(0));
+        assert!(text(&solve.stdout).contains("no a(b) makes it 1"));
+    }
+}
+
+/// The library reports the same without the binary: a total of exactly 0 and undefined moments.
+#[test]
+fn the_analysis_marks_moments_of_a_zero_total_undefined() {
+    let problem = build_problem("a(k)/a(k-1) = k-3").unwrap();
+    let solution = solve(&problem, &Default::default()).unwrap();
+    let analysis = analyse(&problem, &solution, &AnalysisRequest::default()).unwrap();
+    assert_eq!(
+        analysis.normalization.value.unwrap().exact.as_deref(),
+        Some("0")
+    );
+    assert!(matches!(analysis.mean.finiteness, Finiteness::Undefined(_)));
+    assert!(matches!(
+        analysis.variance.finiteness,
+        Finiteness::Undefined(_)
+    ));
+}
+
+/// Supports of one or two terms whose totals do not vanish still get their moments, for every
+/// command.
+#[test]
+fn short_supports_answer_every_command() {
+    for rule in [
+        "a(k)/a(k-1) = k-2",
+        "a(k)/a(k-1) = (3-k)/(k+1)",
+        "a(k)/a(k-1) = k for k >= 0",
+        "a(k)/a(k-1) = -(k-3)",
+        "a(k)/a(k-1) = (k-3)^2",
+    ] {
+        for args in [
+            vec!["solve", "-"],
+            vec!["solve", "-", "--normalize", "--terms", "4"],
+            vec!["table", "-", "--k=-2..6", "--check-all"],
+            vec!["check", "-", "--claim", "a(1) (-1)^k"],
+        ] {
+            let out = with_stdin(&args, rule);
+            let code = out.status.code();
+            assert!(
+                matches!(code, Some(0..=2)),
+                "{rule} {args:?}: {code:?} {}",
+                text(&out.stderr)
+            );
+        }
+    }
+    // a(1) = 1, a(2) = (3-2)/3 = 1/3, a(3) = 0: the total is 4/3 and the mean (1 + 2/3)/(4/3) = 5/4.
+    let out = with_stdin(
+        &["solve", "-", "--format", "json"],
+        "a(k)/a(k-1) = (3-k)/(k+1)",
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["normalization"]["exact"], "4/3");
+    assert_eq!(v["mean"]["exact"], "5/4");
+}
+
+/// Large powers are judged from the syntax tree and refused before anything is expanded.
+#[test]
+fn absurd_sizes_are_refused_at_once() {
+    let refused = [
+        // the outside fuzz run's input: 18 s to refuse before
+        "p(k) = (rhok-1) ^1000p(k-1)^1000/(k+2)",
+        // a balance equation whose coefficient would be expanded first
+        "p(k) = (rho-1)^1000 p(k-1)/(k+2)",
+        // over 100 s each before
+        "p(k)/p(k-1) = (rho k-1)^1000/(k+2)",
+        "p(k)/p(k-1) = (rho-1)^1000 (k+1)/(k+2)",
+        // 9 s before
+        "p(k)/p(k-1) = (k+1)^1000/(k+2)^1000",
+        // nested powers whose exponents multiply past i32
+        "((((k+1)^1000)^1000)^1000)^1000",
+        // numbers of millions of digits
+        "(10^1000)^1000 (k+1)/(k+2)",
+        // many parameters in an expanded power
+        "(rho+s+t-1)^20 (k+1)/(k+2)",
+    ];
+    for rule in refused {
+        for args in [
+            vec!["solve", "-"],
+            vec!["table", "-", "--k", "1..3"],
+            vec!["check", "-", "--claim", "a(1)"],
+        ] {
+            let out = with_stdin(&args, rule);
+            assert_eq!(out.status.code(), Some(2), "{rule} {args:?}");
+            let stderr = text(&out.stderr);
+            assert!(stderr.contains("too large"), "{rule}: {stderr}");
+            assert!(stderr.contains("column"), "{stderr}");
+        }
+    }
+    // The same judgement for claims.
+    let out = common::telescope(&[
+        "check",
+        "a(k)/a(k-1) = (k+1)/(k+2)",
+        "--claim",
+        "a(1) ((k+1)^1000)^1000",
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(text(&out.stderr).contains("too large"));
+}
+
+/// A stray `^1000` or `/` in an example file gives an answer or a refusal (the mutations that
+/// ran past 15 s in the outside fuzz run were of this kind).
+#[test]
+fn mutated_examples_answer_or_refuse() {
+    for (name, source) in common::examples() {
+        let rule_line = source
+            .lines()
+            .find(|l| l.contains("(k") && !l.trim_start().starts_with('#'))
+            .unwrap_or_else(|| panic!("{name} has a rule"));
+        for (from, to) in [
+            ("(k", "(k^1000"),
+            ("(k", "/(k"),
+            (")", ")^1000"),
+            ("k", "k^-1000"),
+        ] {
+            let mutated = source.replacen(rule_line, &rule_line.replacen(from, to, 1), 1);
+            for args in [vec!["solve", "-"], vec!["check", "-", "--claim", "a(1) k"]] {
+                let out = with_stdin(&args, &mutated);
+                assert!(
+                    matches!(out.status.code(), Some(0..=2)),
+                    "{name} with {to}: {}",
+                    text(&out.stderr)
+                );
+            }
+        }
+    }
+}
+
+/// `table --check-all` over 10^7 rows at 50 digits ran for many minutes with no sign of life:
+/// it is refused before it starts, with the estimate and the way to proceed.
+#[test]
+fn work_beyond_the_budget_is_refused_with_the_estimate() {
+    let rule = "a(k)/a(k-1) = (k-1)/(k+5/2) for k >= 2";
+    let out = common::telescope(&[
+        "table",
+        rule,
+        "--k",
+        "1..10000000",
+        "--digits",
+        "50",
+        "--check-all",
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    let stderr = text(&out.stderr);
+    assert!(stderr.contains("10000000 rows at 50 digits"), "{stderr}");
+    assert!(stderr.contains("--max-seconds"), "{stderr}");
+    // A small budget refuses small work too; a large one admits it.
+    let tight = common::telescope(&["table", rule, "--k", "1..2000", "--max-seconds", "0.001"]);
+    assert_eq!(tight.status.code(), Some(2));
+    let ok = common::telescope(&["table", rule, "--k", "1..20", "--max-seconds", "1000"]);
+    assert_eq!(ok.status.code(), Some(0));
+    let solve = common::telescope(&["solve", rule, "--terms", "20", "--max-seconds", "0.000001"]);
+    assert_eq!(solve.status.code(), Some(2));
+    assert!(text(&solve.stderr).contains("20 tail corrections"));
+}
+
+/// cargo-fuzz `parse` target, finding 1: a later piece of a piecewise rate without a range
+/// panicked ("later pieces have ranges") in model::rates.
+#[test]
+fn a_later_rate_piece_without_a_range_is_refused() {
+    let model = "param lambda, mu > 0\nparam c integer >= 1\nbirth(k) = lambda\n\
+                 death(k) = k mu     for 0 <= k <= c\ndeath(k) = c mu     fontegerc";
+    let out = with_stdin(&["solve", "-"], model);
+    assert_eq!(out.status.code(), Some(2), "{}", text(&out.stderr));
+    assert!(
+        text(&out.stderr).contains("has no range"),
+        "{}",
+        text(&out.stderr)
+    );
+    telescope::fuzzing::parse_bytes(model.as_bytes());
+}
