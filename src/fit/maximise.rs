@@ -146,20 +146,9 @@ fn number(x: f64) -> String {
 fn newton_polish(like: &Likelihood, real: &[usize], theta: &mut [f64], best: &mut f64) {
     for _ in 0..8 {
         let steps = steps_for(like, real, theta);
-        let base = theta.to_vec();
-        let mut f = |x: &[f64]| -> f64 {
-            let mut t = base.clone();
-            for (slot, i) in real.iter().enumerate() {
-                t[*i] = x[slot];
-            }
-            like.log_likelihood(&t)
-        };
+        let mut f = restricted(like, real, theta);
         let x: Vec<f64> = real.iter().map(|i| theta[*i]).collect();
-        let (gradient, hessian) = derivatives(&mut f, &x, &steps);
-        let information: Vec<Vec<f64>> = hessian
-            .iter()
-            .map(|row| row.iter().map(|v| -v).collect())
-            .collect();
+        let (gradient, information) = observed_information(&mut f, &x, &steps);
         let Some(l) = cholesky(&information) else {
             return;
         };
@@ -189,6 +178,37 @@ fn newton_polish(like: &Likelihood, real: &[usize], theta: &mut [f64], best: &mu
             return;
         }
     }
+}
+
+/// ℓ as a function of the real parameters alone (in the order of `real`), the others held
+/// at their values in `theta`.
+pub fn restricted<'a>(
+    like: &'a Likelihood,
+    real: &'a [usize],
+    theta: &[f64],
+) -> impl FnMut(&[f64]) -> f64 + 'a {
+    let base = theta.to_vec();
+    move |x: &[f64]| {
+        let mut t = base.clone();
+        for (slot, i) in real.iter().enumerate() {
+            t[*i] = x[slot];
+        }
+        like.log_likelihood(&t)
+    }
+}
+
+/// The gradient of ℓ and the observed information −∇²ℓ at `x`, by central differences.
+pub fn observed_information(
+    f: &mut dyn FnMut(&[f64]) -> f64,
+    x: &[f64],
+    steps: &[f64],
+) -> (Vec<f64>, Vec<Vec<f64>>) {
+    let (gradient, hessian) = derivatives(f, x, steps);
+    let information = hessian
+        .iter()
+        .map(|row| row.iter().map(|v| -v).collect())
+        .collect();
+    (gradient, information)
 }
 
 /// Central-difference steps: [`HESSIAN_STEP`] relative (absolute below 1), never more than a

@@ -7,8 +7,8 @@
 use statrs::distribution::{ChiSquared, ContinuousCDF};
 
 use super::likelihood::Likelihood;
-use super::maximise::{maximise, steps_for};
-use super::optimise::{cholesky, derivatives, inverse_from_cholesky};
+use super::maximise::{maximise, observed_information, restricted, steps_for};
+use super::optimise::{cholesky, inverse_from_cholesky};
 
 /// One end of an interval.
 #[derive(Clone, Debug, PartialEq)]
@@ -37,20 +37,9 @@ pub fn standard_errors(
         return Some((Vec::new(), Vec::new()));
     }
     let steps = steps_for(like, real, theta);
-    let base = theta.to_vec();
-    let mut f = |x: &[f64]| -> f64 {
-        let mut t = base.clone();
-        for (slot, i) in real.iter().enumerate() {
-            t[*i] = x[slot];
-        }
-        like.log_likelihood(&t)
-    };
+    let mut f = restricted(like, real, theta);
     let x: Vec<f64> = real.iter().map(|i| theta[*i]).collect();
-    let (_, hessian) = derivatives(&mut f, &x, &steps);
-    let information: Vec<Vec<f64>> = hessian
-        .iter()
-        .map(|row| row.iter().map(|v| -v).collect())
-        .collect();
+    let (_, information) = observed_information(&mut f, &x, &steps);
     // A curvature below the noise of ℓ (≈ 1e-10·|ℓ| over h²) is no curvature at all.
     let l0 = f(&x).abs().max(1.0);
     for (i, row) in information.iter().enumerate() {
