@@ -351,21 +351,7 @@ impl SymbolicModel {
     /// pieces' edges (k ≥ c, k > c, k = c at a breakpoint c, k = K at the last state);
     /// `None` otherwise (the probability then needs values).
     pub fn event_terms(&self, event: &crate::probability::Event) -> Option<Vec<NumeratorTerm>> {
-        let one = RatFunc::one();
-        let lower = event.lower.as_ref().map(|l| {
-            if l.strict {
-                &l.value + &one
-            } else {
-                l.value.clone()
-            }
-        });
-        let upper = event.upper.as_ref().map(|u| {
-            if u.strict {
-                &u.value - &one
-            } else {
-                u.value.clone()
-            }
-        });
+        let (lower, upper) = event.inclusive_bounds();
         let n = self.pieces.len();
         match (&lower, &upper) {
             (Some(l), None) => {

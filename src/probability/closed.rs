@@ -95,21 +95,7 @@ pub fn closed_probability(problem: &Problem, solution: &Solution, event: &Event)
     let (total, _) = closed_sum(&HyperSeries::of_sum(&form, &solution.base_index))?;
     let first = RatFunc::constant(Q::from_integer(solution.base_index.clone()));
     let one = RatFunc::one();
-    // Inclusive integer bounds as rational functions (strict bounds move by one).
-    let lower = event.lower.as_ref().map(|l| {
-        if l.strict {
-            &l.value + &one
-        } else {
-            l.value.clone()
-        }
-    });
-    let upper = event.upper.as_ref().map(|u| {
-        if u.strict {
-            &u.value - &one
-        } else {
-            u.value.clone()
-        }
-    });
+    let (lower, upper) = event.inclusive_bounds();
     // Bounds at or below the base term mean "from the start".
     let below_start = |x: &RatFunc| {
         x.as_constant()

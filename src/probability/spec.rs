@@ -230,6 +230,26 @@ fn bound(
 }
 
 impl Event {
+    /// The inclusive integer bounds as rational functions: a strict bound moves by one.
+    pub fn inclusive_bounds(&self) -> (Option<RatFunc>, Option<RatFunc>) {
+        let one = RatFunc::one();
+        let lower = self.lower.as_ref().map(|l| {
+            if l.strict {
+                &l.value + &one
+            } else {
+                l.value.clone()
+            }
+        });
+        let upper = self.upper.as_ref().map(|u| {
+            if u.strict {
+                &u.value - &one
+            } else {
+                u.value.clone()
+            }
+        });
+        (lower, upper)
+    }
+
     /// The integer range with the parameters' values; an error names a missing value.
     pub fn resolve(&self, values: &BTreeMap<String, Q>) -> Result<IndexRange, String> {
         let eval = |b: &EventBound| -> Result<Q, String> {
