@@ -339,6 +339,40 @@ fn divergent_totals_and_moments_name_the_failed_condition() {
     }
 }
 
+/// The reasons of a failed condition are typeset, never the algebra's ASCII. The citation
+/// rule's law falls like k^(−1 − 1/(1 − ρ)) (Simon 1955, Biometrika 42, tail exponent of the
+/// Yule process, from memory), so the variance needs 1/(1 − ρ) > 2: at ρ = 1/2 it is infinite.
+#[test]
+fn failed_condition_reasons_are_typeset() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/examples/citation_growth.rule"
+    ))
+    .unwrap();
+    let problem = build_problem(&text).unwrap();
+    let values: BTreeMap<String, Q> = [("rho".to_string(), q("1/2"))].into();
+    let solution = solve(&problem, &values).unwrap();
+    let a = analyse(&problem, &solution, &AnalysisRequest::default()).unwrap();
+    assert!(matches!(a.variance.finiteness, Finiteness::Infinite(_)));
+    let rendered = telescope::render::analysis_text(&a);
+    assert!(
+        rendered.contains("fails: (1 − 2ρ)/(ρ − 1) = 0 with ρ = 1/2"),
+        "{rendered}"
+    );
+    assert!(
+        !rendered.contains("rho") && !rendered.contains('*'),
+        "{rendered}"
+    );
+    insta::assert_snapshot!("citation_rho_half_analysis_text", rendered);
+    let latex = telescope::render::analysis_latex(&a);
+    assert!(latex.contains("$\\rho = \\frac{1}{2}$"), "{latex}");
+    assert!(
+        !latex.contains("rho = 1/2") && !latex.contains("*rho"),
+        "{latex}"
+    );
+    insta::assert_snapshot!("citation_rho_half_analysis_latex", latex);
+}
+
 #[test]
 fn normalized_tables_sum_to_one_within_the_stated_bound() {
     for case in &cases() {

@@ -429,3 +429,29 @@ fn probabilities_on_the_page_equal_those_of_solve() {
         "reproduce --prob"
     );
 }
+
+/// A failed condition's reason is typeset as MathML, not printed in the algebra's ASCII. The
+/// citation rule's variance needs 1/(1 − ρ) > 2 (tail exponent 1 + 1/(1 − ρ) of the Yule
+/// process, Simon 1955, from memory), so at ρ = 1/2 it fails.
+#[test]
+fn failed_condition_reasons_are_mathml() {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/examples/citation_growth.rule");
+    let page = report(path, &["rho=1/2".to_string()]);
+    let html = check_page("citation rho = 1/2", &page);
+    let failing: Vec<String> = select(&html, ".status-fails")
+        .iter()
+        .map(|e| e.html())
+        .collect();
+    assert!(!failing.is_empty(), "no failed condition on the page");
+    for f in &failing {
+        assert!(f.contains("<math"), "reason not typeset: {f}");
+        assert!(!f.contains("rho") || f.contains("\\rho"), "ASCII name: {f}");
+        assert!(!f.contains('*'), "ASCII algebra: {f}");
+    }
+    let variance = select(&html, "dd")
+        .iter()
+        .map(|e| e.html())
+        .find(|d| d.contains("infinite ("))
+        .expect("the variance is infinite");
+    assert!(variance.contains("<math"), "{variance}");
+}

@@ -12,6 +12,7 @@ use crate::model::Param;
 use crate::solve::box_sign::{box_sign, BoxSign};
 use crate::solve::inequality::{solve_linear, split_univariate_open, LinearSolution, Split};
 use crate::solve::ranges::Interval;
+use crate::solve::reason::Reason;
 
 /// One inequality in the parameters.
 #[derive(Clone, Debug, PartialEq)]
@@ -24,10 +25,11 @@ pub enum Inequality {
     Never(String),
 }
 
+/// Whether an inequality holds, and why (typed: the renderers lay out its formulas).
 #[derive(Clone, Debug, PartialEq)]
 pub enum Verdict {
-    Holds(String),
-    Fails(String),
+    Holds(Reason),
+    Fails(Reason),
     Undecided,
 }
 
@@ -74,22 +76,15 @@ impl Requirement {
     }
 }
 
-fn settled_by(expr: &RatFunc, values: &BTreeMap<String, Q>) -> String {
-    let vars = expr.variables();
-    if vars.is_empty() {
-        return "a number".to_string();
-    }
-    vars.iter()
-        .filter_map(|v| values.get(v).map(|q| format!("{v} = {q}")))
-        .collect::<Vec<_>>()
-        .join(", ")
-}
-
-fn failure(expr: &RatFunc, value: &Q, values: &BTreeMap<String, Q>) -> String {
+/// `(1 − 2ρ)/(ρ − 1) = 0 with ρ = 1/2`, or `it equals 0` for a number.
+fn failure(expr: &RatFunc, value: &Q, values: &BTreeMap<String, Q>) -> Reason {
     if expr.variables().is_empty() {
-        format!("it equals {value}")
+        Reason::words("it equals").then_number(value)
     } else {
-        format!("{expr} = {value} with {}", settled_by(expr, values))
+        Reason::default()
+            .then_equation(expr, value)
+            .then_words("with")
+            .then_values_of(expr, values)
     }
 }
 
@@ -131,7 +126,7 @@ fn decide_with_region(
     digits: u32,
 ) -> (Verdict, Option<Region>) {
     let expr = match ineq {
-        Inequality::Never(why) => return (Verdict::Fails(why.clone()), None),
+        Inequality::Never(why) => return (Verdict::Fails(Reason::words(why.clone())), None),
         Inequality::Positive(expr) | Inequality::AbsBelowOne(expr) => expr,
     };
     if let Ok(v) = expr.eval(values) {
@@ -140,7 +135,7 @@ fn decide_with_region(
             _ => v.abs() < Q::one(),
         };
         let verdict = if holds {
-            Verdict::Holds(settled_by(expr, values))
+            Verdict::Holds(Reason::values_of(expr, values))
         } else {
             Verdict::Fails(failure(expr, &v, values))
         };

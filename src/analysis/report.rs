@@ -17,6 +17,7 @@ use super::tail::{tail_law, Tail};
 use crate::algebra::{RatFunc, Q};
 use crate::diagnostic::Diagnostic;
 use crate::model::Problem;
+use crate::solve::reason::Reason;
 use crate::solve::{Solution, SupportEnd};
 
 #[derive(Clone, Debug)]
@@ -43,10 +44,11 @@ impl Default for AnalysisRequest {
 #[derive(Clone, Debug, PartialEq)]
 pub enum Finiteness {
     Finite,
-    Infinite(String),
+    /// Infinite, and why.
+    Infinite(Reason),
     Undecided,
     /// Finite sums, but the quantity divides by a total that is 0.
-    Undefined(String),
+    Undefined(Reason),
 }
 
 /// A number to `digits` digits with its provenance.
@@ -372,8 +374,11 @@ pub fn normalizing_base_value(
     let analysis = analyse(problem, solution, &request)?;
     let fail = |why: String| Diagnostic::new(why, problem.rule_span.clone());
     if let Finiteness::Infinite(why) = &analysis.normalization.finiteness {
-        return Err(fail(format!("--normalize: the total diverges ({why})"))
-            .with_help("only a sequence with a finite total can be normalised"));
+        return Err(fail(format!(
+            "--normalize: the total diverges ({}))",
+            crate::render::reason::text(why)
+        ))
+        .with_help("only a sequence with a finite total can be normalised"));
     }
     let values = &solution.values;
     let closed = analysis

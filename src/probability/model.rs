@@ -50,7 +50,7 @@ pub fn analyse_model(
     let finite_support = law.as_ref().map_or(!open, |l| l.support_end().is_some());
     let finiteness = match (&total, &piece) {
         (Some(Ok(_)), _) => Finiteness::Finite,
-        (Some(Err(MassError::Divergent(why))), _) => Finiteness::Infinite(why.clone()),
+        (Some(Err(MassError::Divergent(why))), _) => Finiteness::Infinite(why.clone().into()),
         (_, Some(p)) => p.normalization.finiteness.clone(),
         (_, None) => Finiteness::Finite,
     };
@@ -132,7 +132,7 @@ pub fn analyse_model(
             ),
             (Some(Ok(v)), _) => (Finiteness::Finite, Some(value_report(v))),
             (Some(Err(why)), _) if why.contains("diverges") => {
-                (Finiteness::Infinite(why.clone()), None)
+                (Finiteness::Infinite(why.clone().into()), None)
             }
             _ => (from_piece.unwrap_or(Finiteness::Finite), None),
         };

@@ -14,6 +14,7 @@ pub mod mathml;
 pub mod model_output;
 pub mod node;
 pub mod probability_output;
+pub mod reason;
 pub mod region;
 pub mod report;
 pub mod sample_output;

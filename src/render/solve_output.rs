@@ -9,7 +9,7 @@ use crate::solve::{Condition, ConditionKind, Solution, Status, SupportEnd};
 
 use super::node::Node;
 use super::region::{region_json, region_latex, region_text};
-use super::{derivation, formula, latex, text, to_node};
+use super::{derivation, formula, latex, reason, text, to_node};
 use crate::analysis::Region;
 
 /// `a(k)/a(k−1) = R(k)` as one node pair.
@@ -106,8 +106,8 @@ pub(crate) fn status_parts(
 ) -> (&'static str, Option<(String, String)>) {
     match s {
         Status::Undecided | Status::NotDecided(_) => ("undecided", None),
-        Status::Holds(why) => ("holds", Some((why.clone(), why.clone()))),
-        Status::Fails(why) => ("fails", Some((why.clone(), why.clone()))),
+        Status::Holds(why) => ("holds", Some((reason::text(why), reason::latex(why)))),
+        Status::Fails(why) => ("fails", Some((reason::text(why), reason::latex(why)))),
         Status::SettledByRange(names) => {
             let ranges: Vec<(String, String)> = names
                 .iter()

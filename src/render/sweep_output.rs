@@ -71,7 +71,7 @@ fn missing_reason(m: &Missing, sweep: &Sweep) -> (bool, String) {
             let (text, _) = inequality_strings(i);
             (true, format!(" infinite: needs {text}"))
         }
-        Missing::Infinite { why, .. } => (true, format!(" infinite: {why}")),
+        Missing::Infinite { why, .. } => (true, format!(" infinite: {}", super::reason::text(why))),
         Missing::NoTail(end) => (
             false,
             format!(

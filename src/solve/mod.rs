@@ -8,6 +8,7 @@ pub mod algebraic;
 pub mod box_sign;
 pub mod inequality;
 pub mod ranges;
+pub mod reason;
 mod support;
 mod telescope;
 

@@ -15,6 +15,7 @@ use super::inequality::{split_univariate, Split};
 use super::ranges::{
     integers_reached, range_contains, takes_integer_at_least, vanishes_somewhere, Interval, Verdict,
 };
+use super::reason::Reason;
 use super::telescope::numeric_shift;
 
 /// The index range on which a(k) is non-zero.
@@ -64,12 +65,12 @@ pub enum Status {
     /// Not decided, and the ranges could not settle it; the string says why (several
     /// parameters, the range leaves both outcomes possible, an irrational breakpoint).
     NotDecided(String),
-    /// Holds; the string says what settles it (`rho = 3/10`).
-    Holds(String),
+    /// Holds; the reason says what settles it (`ρ = 3/10`).
+    Holds(Reason),
     /// Holds for every value the declared ranges of these parameters allow.
     SettledByRange(Vec<String>),
-    /// Fails; the string says why.
-    Fails(String),
+    /// Fails, and why.
+    Fails(Reason),
 }
 
 fn value_of(expr: &RatFunc, values: &BTreeMap<String, Q>) -> Option<Q> {
@@ -232,7 +233,10 @@ pub fn conditions(
     for condition in &out {
         if let Status::Fails(why) = &condition.status {
             return Err(Diagnostic::new(
-                format!("a condition of the rule fails: {why}"),
+                format!(
+                    "a condition of the rule fails: {}",
+                    crate::render::reason::text(why)
+                ),
                 problem.rule_span.clone(),
             )
             .with_help("choose other values with --param"));
@@ -343,32 +347,30 @@ fn nonzero_conditions(p: &Poly) -> Vec<ConditionKind> {
 }
 
 fn decide(kind: &ConditionKind, values: &BTreeMap<String, Q>) -> Status {
-    let shown = |vars: &std::collections::BTreeSet<String>| -> String {
-        vars.iter()
-            .filter_map(|v| values.get(v).map(|q| format!("{v} = {q}")))
-            .collect::<Vec<_>>()
-            .join(", ")
-    };
+    let shown = |expr: &RatFunc| Reason::values_of(expr, values);
     match kind {
         ConditionKind::NonZero(expr) => match expr.eval(values) {
-            Ok(v) if v.is_zero() => Status::Fails(format!(
-                "{} makes a divisor of the rule zero",
-                shown(&expr.variables())
-            )),
-            Ok(_) => Status::Holds(shown(&expr.variables())),
+            Ok(v) if v.is_zero() => {
+                Status::Fails(shown(expr).then_words("makes a divisor of the rule zero"))
+            }
+            Ok(_) => Status::Holds(shown(expr)),
             Err(_) => Status::Undecided,
         },
         ConditionKind::NotEqual { param, value } => match values.get(param) {
-            Some(v) if v == value => Status::Fails(format!("{param} = {v} is excluded")),
-            Some(v) => Status::Holds(format!("{param} = {v}")),
+            Some(v) if v == value => Status::Fails(
+                Reason::default()
+                    .then_value(param, v)
+                    .then_words("is excluded"),
+            ),
+            Some(v) => Status::Holds(Reason::default().then_value(param, v)),
             None => Status::Undecided,
         },
         ConditionKind::NotIntegerAtLeast { expr, min } => match expr.eval(values) {
-            Ok(v) if integer_at_least(&v, min) => Status::Fails(format!(
-                "with {} a denominator factor vanishes at k = {v}",
-                shown(&expr.variables())
-            )),
-            Ok(_) => Status::Holds(shown(&expr.variables())),
+            Ok(v) if integer_at_least(&v, min) => Status::Fails(
+                Reason::words(format!("a denominator factor vanishes at k = {v} with"))
+                    .then_values_of(expr, values),
+            ),
+            Ok(_) => Status::Holds(shown(expr)),
             Err(_) => Status::Undecided,
         },
     }

@@ -180,7 +180,7 @@ pub enum Missing {
     /// The quantity is infinite; the requirement that fails (when it is one) and why.
     Infinite {
         failed: Option<Inequality>,
-        why: String,
+        why: crate::solve::reason::Reason,
     },
     /// The support ends at this k: there is no tail law.
     NoTail(BigInt),

@@ -199,7 +199,7 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
                 .filter(|r| r.fails())
                 .map(requirement_json)
                 .collect();
-            divergent.push(json!({ "quantity": name, "reason": why, "failed": failed }));
+            divergent.push(json!({ "quantity": name, "reason": crate::render::reason::text(why), "failed": failed }));
         }
     }
     out.insert("divergent".into(), Value::Array(divergent));

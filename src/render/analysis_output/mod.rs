@@ -16,15 +16,24 @@ use crate::analysis::{
 pub(crate) use formula::subscript;
 
 use super::node::Node;
+use super::reason;
 use super::region::{region_latex, region_text, region_words};
 use super::{latex, text, to_node};
+use crate::solve::reason::Reason;
 
-pub(super) fn verdict_strings(v: &Verdict) -> (&'static str, Option<&str>) {
+/// The verdict in one word and its reason.
+pub(super) fn verdict_parts(v: &Verdict) -> (&'static str, Option<&Reason>) {
     match v {
         Verdict::Holds(why) => ("holds", Some(why)),
         Verdict::Fails(why) => ("fails", Some(why)),
         Verdict::Undecided => ("undecided", None),
     }
+}
+
+/// The verdict in one word and its reason as text.
+pub(super) fn verdict_strings(v: &Verdict) -> (&'static str, Option<String>) {
+    let (word, why) = verdict_parts(v);
+    (word, why.map(reason::text))
 }
 
 fn requirement_text(r: &Requirement) -> String {
@@ -134,10 +143,10 @@ fn law_shape(a: &Analysis, law: &crate::analysis::Tail) -> String {
 fn finiteness_word(f: &Finiteness, finite_for: Option<&Region>) -> String {
     match (f, finite_for) {
         (Finiteness::Finite, _) => "finite".into(),
-        (Finiteness::Infinite(why), _) => format!("infinite ({why})"),
+        (Finiteness::Infinite(why), _) => format!("infinite ({})", reason::text(why)),
         (Finiteness::Undecided, Some(region)) => region_text(region, "finite", "infinite"),
         (Finiteness::Undecided, None) => "finite where the conditions below hold".into(),
-        (Finiteness::Undefined(why), _) => format!("undefined ({why})"),
+        (Finiteness::Undefined(why), _) => format!("undefined ({})", reason::text(why)),
     }
 }
 
@@ -406,6 +415,10 @@ pub fn analysis_latex(a: &Analysis) -> String {
                 (Verdict::Undecided, Some(region)) => {
                     format!(", which holds for ${}$", region_latex(region))
                 }
+                (Verdict::Fails(why), _) if !why.is_empty() => {
+                    format!("; fails: {}", reason::latex(why))
+                }
+                (Verdict::Fails(_), _) => "; fails".into(),
                 _ => String::new(),
             };
             format!(

@@ -242,10 +242,10 @@ fn requirements(list: &[Requirement]) -> String {
     }
     let mut out = String::from("<ul class=\"requirements\">\n");
     for r in list {
-        let (word, why) = super::super::analysis_output::verdict_strings(&r.verdict);
+        let (word, why) = super::super::analysis_output::verdict_parts(&r.verdict);
         let why = why
             .filter(|w| !w.is_empty())
-            .map(|w| format!(": {w}"))
+            .map(|w| format!(": {}", super::super::reason::html(w)))
             .unwrap_or_default();
         let region = r
             .region
@@ -256,18 +256,20 @@ fn requirements(list: &[Requirement]) -> String {
             "<li>{} — {}; <span class=\"status-{word}\">{word}{}</span>{region}</li>\n",
             inequality_math(&r.inequality).element(false),
             escape_text(&r.purpose),
-            escape_text(&why)
+            why
         );
     }
     out + "</ul>\n"
 }
 
+/// The finiteness in words, as HTML (the reason's formulas as inline MathML).
 fn finiteness_words(f: &Finiteness) -> String {
+    use super::super::reason::html;
     match f {
         Finiteness::Finite => "finite".into(),
-        Finiteness::Infinite(why) => format!("infinite ({why})"),
+        Finiteness::Infinite(why) => format!("infinite ({})", html(why)),
         Finiteness::Undecided => "finite where the conditions hold".into(),
-        Finiteness::Undefined(why) => format!("undefined ({why})"),
+        Finiteness::Undefined(why) => format!("undefined ({})", html(why)),
     }
 }
 
@@ -349,10 +351,7 @@ pub(super) fn sums(page: &ReportPage) -> String {
     if norm.finite_support {
         out += &fact("support", "finite: a finite sum");
     }
-    out += &fact(
-        "the total is",
-        &escape_text(&finiteness_words(&norm.finiteness)),
-    );
+    out += &fact("the total is", &finiteness_words(&norm.finiteness));
     if let Some(region) = &norm.finite_for {
         out += &fact("finite", &region_html(region));
     }
@@ -409,7 +408,7 @@ pub(super) fn sums(page: &ReportPage) -> String {
         out += "\n<dl class=\"facts\">\n";
         out += &fact(
             &format!("the {quantity} is"),
-            &escape_text(&finiteness_words(&m.finiteness)),
+            &finiteness_words(&m.finiteness),
         );
         if let Some(region) = &m.finite_for {
             out += &fact("finite", &region_html(region));

@@ -280,13 +280,14 @@ fn condition_rows(problem: &Problem, conditions: &[&Condition]) -> String {
     );
     for c in conditions {
         let (word, why) = status_parts(problem, &c.status);
-        let mut status = match why {
-            Some((w, _)) if !w.is_empty() => format!("{word}: {w}"),
+        let status = match (&c.status, why) {
+            (Status::Holds(r) | Status::Fails(r), _) if !r.is_empty() => {
+                format!("{word}: {}", crate::render::reason::html(r))
+            }
+            (Status::NotDecided(note), _) => escape_text(&format!("{word}: {note}")),
+            (_, Some((w, _))) if !w.is_empty() => escape_text(&format!("{word}: {w}")),
             _ => word.to_string(),
         };
-        if let Status::NotDecided(note) = &c.status {
-            status = format!("{status}: {note}");
-        }
         let region = c
             .holds_for
             .as_ref()
@@ -303,7 +304,7 @@ fn condition_rows(problem: &Problem, conditions: &[&Condition]) -> String {
             "<tr><td>{}</td><td>{}</td><td class=\"status-{word}\">{}{region}</td></tr>\n",
             condition_math(c).element(false),
             escape_text(&c.reason),
-            escape_text(&status)
+            status
         );
     }
     out + "</tbody>\n</table>\n"
