@@ -40,7 +40,7 @@ fn the_citation_variance_is_finite_exactly_for_rho_above_one_half() {
         "{out}"
     );
     assert!(
-        out.contains("(1 − 2ρ)/(ρ − 1) > 0   (Σ k²·a(k) converges (finite variance); holds for 1/2 < ρ < 1, fails for 0 < ρ ≤ 1/2)"),
+        out.contains("(1 − 2ρ)/(ρ − 1) > 0   (Σ k²·n(k) converges (finite variance); holds for 1/2 < ρ < 1, fails for 0 < ρ ≤ 1/2)"),
         "{out}"
     );
     assert!(!out.contains("undecided"), "{out}");

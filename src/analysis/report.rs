@@ -151,18 +151,31 @@ pub struct Analysis {
     pub variance: Moment,
 }
 
-/// Purposes of the three convergence requirements.
-const PURPOSES: [&str; 3] = [
-    "the total Σ a(k) converges",
-    "Σ k·a(k) converges (finite mean)",
-    "Σ k²·a(k) converges (finite variance)",
-];
+/// The terms `Σ k^j a(k)` of the j-th moment sum, in the problem's own names (`k²·n(k)`).
+fn moment_terms(j: usize, sequence: &str, index: &str) -> String {
+    let term = format!("{sequence}({index})");
+    match j {
+        0 => term,
+        1 => format!("{index}·{term}"),
+        _ => format!("{index}²·{term}"),
+    }
+}
+
+/// Purpose of the j-th convergence requirement (total, mean, variance).
+fn purpose(j: usize, sequence: &str, index: &str) -> String {
+    let terms = moment_terms(j, sequence, index);
+    match j {
+        0 => format!("the total Σ {terms} converges"),
+        1 => format!("Σ {terms} converges (finite mean)"),
+        _ => format!("Σ {terms} converges (finite variance)"),
+    }
+}
 
 /// When `Σ k^j a(k)` converges, from the tail law: factorial decay always, factorial growth
 /// never, geometric when |r| < 1, and for r = 1 when θ + j < −1 (comparison with Σ k^s,
 /// common practice); r = −1 needs θ + j < 0 (alternating series test).
 /// `None` when it always converges.
-fn convergence(tail: &Tail, j: i64) -> Option<Inequality> {
+fn convergence(tail: &Tail, j: i64, terms: &str) -> Option<Inequality> {
     let d = tail.factorial_power;
     if d > 0 {
         return Some(Inequality::Never(format!(
@@ -173,7 +186,6 @@ fn convergence(tail: &Tail, j: i64) -> Option<Inequality> {
         return None;
     }
     let shifted = &tail.power + &RatFunc::from_integer(j);
-    let terms = ["a(k)", "k·a(k)", "k²·a(k)"][j.clamp(0, 2) as usize];
     // A numeric exponent is decided here, with the reason in words.
     let decided = |expr: RatFunc, bound: i64| -> Option<Inequality> {
         match expr.as_constant() {
@@ -255,8 +267,13 @@ pub fn analyse(
             if finite_support {
                 return Vec::new();
             }
-            convergence(&law, j as i64)
-                .map(|i| Requirement::new(i, PURPOSES[j], values, &problem.params, request.digits))
+            let (sequence, index) = (&problem.sequence, &problem.index);
+            let terms = moment_terms(j, sequence, index);
+            convergence(&law, j as i64, &terms)
+                .map(|i| {
+                    let why = purpose(j, sequence, index);
+                    Requirement::new(i, &why, values, &problem.params, request.digits)
+                })
                 .into_iter()
                 .collect()
         })

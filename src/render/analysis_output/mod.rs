@@ -443,9 +443,9 @@ pub fn analysis_latex(a: &Analysis) -> String {
 /// The purpose in plain ASCII words (the text form uses Σ and ², which amsmath alone does not
 /// typeset outside math mode).
 fn latex_purpose(purpose: &str) -> &'static str {
-    if purpose.contains("mean") {
+    if purpose.ends_with("(finite mean)") {
         "finite mean"
-    } else if purpose.contains("variance") {
+    } else if purpose.ends_with("(finite variance)") {
         "finite variance"
     } else {
         "convergent total"
