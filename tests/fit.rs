@@ -89,26 +89,81 @@ fn rand_hie_visits_match_statsmodels_negative_binomial_to_six_digits() {
 #[test]
 fn poisson_and_geometric_estimates_are_the_sample_mean() {
     // Closed-form MLEs (common practice): Poisson λ̂ = x̄; geometric on {0,1,…} with
-    // P(k) ∝ q^k has mean q/(1−q), so q̂/(1−q̂) = x̄. The exact mean is a fraction; the
-    // estimate must equal it to 1e-11 relative: the limit of a double-precision likelihood,
-    // far below the printed 7 digits.
+    // P(k) ∝ q^k has mean q/(1−q), so q̂ = x̄/(1 + x̄). Both are power-series families, whose
+    // likelihood equation is mean = sample mean: the estimate must be that fraction exactly.
     let counts = Counts::from_pairs([(0, 7), (1, 12), (2, 9), (3, 5), (4, 2), (6, 1)]);
     let (num, den) = counts.mean_fraction();
-    let mean = num as f64 / den as f64;
+    let x_bar = Q::new(num.into(), den.into());
+    assert_eq!(x_bar, parse_q("59/36").unwrap());
     let poisson = build_problem("param lambda > 0\na(k)/a(k-1) = lambda/k for k >= 1").unwrap();
     let f = fitted(&poisson, &counts);
-    assert!(
-        close(f.estimates[0].value, mean, 1e-11),
-        "{}",
-        f.estimates[0].value
-    );
+    assert_eq!(f.estimates[0].exact.as_ref(), Some(&x_bar));
+    let mean = 59.0 / 36.0;
+    assert!(close(f.estimates[0].value, mean, 1e-15));
     // Standard error from the observed information: √(x̄/n) (common practice).
     let se = (mean / counts.total() as f64).sqrt();
     assert!(close(f.estimates[0].standard_error.unwrap(), se, 1e-5));
     let geometric = build_problem("param q in (0, 1)\na(k)/a(k-1) = q for k >= 1").unwrap();
     let f = fitted(&geometric, &counts);
-    let q = f.estimates[0].value;
-    assert!(close(q / (1.0 - q), mean, 1e-11), "{q}");
+    let one = Q::from_integer(1.into());
+    assert_eq!(f.estimates[0].exact, Some(&x_bar / &(&one + &x_bar)));
+    // The geometric law written by its mean m, R(k) = m/(1 + m): m̂ = x̄ (invariance of the MLE).
+    let by_mean = build_problem("param m > 0\na(k)/a(k-1) = m/(1+m) for k >= 1").unwrap();
+    assert_eq!(
+        fitted(&by_mean, &counts).estimates[0].exact,
+        Some(x_bar.clone())
+    );
+}
+
+#[test]
+fn power_series_families_with_a_given_parameter_are_exact() {
+    // Binomial(N, p) with N given: p̂ = x̄/N; negative binomial with r given: mean r p/(1 − p),
+    // so p̂ = x̄/(r + x̄) (common practice, both closed-form MLEs).
+    let counts = Counts::from_pairs([(0, 7), (1, 12), (2, 9), (3, 5), (4, 2), (6, 1)]);
+    let x_bar = parse_q("59/36").unwrap();
+    let binomial = build_problem(
+        "param N integer >= 1\nparam p in (0, 1)\na(k)/a(k-1) = p (N-k+1)/((1-p) k) for k >= 1",
+    )
+    .unwrap();
+    let request = |name: &str, v: &str| FitRequest {
+        fixed: values(&[(name, v)]),
+        ..FitRequest::default()
+    };
+    let f = fit(&binomial, &counts, &request("N", "8")).outcome.unwrap();
+    assert_eq!(f.estimates[0].exact, Some(&x_bar / &parse_q("8").unwrap()));
+    let negative_binomial = build_problem(NEGATIVE_BINOMIAL).unwrap();
+    let f = fit(&negative_binomial, &counts, &request("r", "5/2"))
+        .outcome
+        .unwrap();
+    assert_eq!(
+        f.estimates[0].exact,
+        Some(&x_bar / &(&parse_q("5/2").unwrap() + &x_bar))
+    );
+    // Left-truncated geometric (k ≥ 1): mean 1/(1 − q) over the 29 observations with k ≥ 1
+    // (sum 59), so q̂ = 1 − 29/59 = 30/59.
+    let geometric = build_problem("param q in (0, 1)\na(k)/a(k-1) = q for k >= 1").unwrap();
+    let request = FitRequest {
+        k_min: Some(1),
+        ..FitRequest::default()
+    };
+    let f = fit(&geometric, &counts, &request).outcome.unwrap();
+    assert_eq!(f.estimates[0].exact, Some(parse_q("30/59").unwrap()));
+}
+
+#[test]
+fn estimates_without_a_rational_likelihood_equation_stay_numeric() {
+    // The left-truncated Poisson mean λ/(1 − e^(−λ)) is not rational, and the Yule–Simon α
+    // sits in the factors, not the constant: neither has an exact estimate.
+    let counts = Counts::from_pairs([(1, 12), (2, 9), (3, 5), (4, 2), (6, 1)]);
+    let poisson = build_problem("param lambda > 0\na(k)/a(k-1) = lambda/k for k >= 1").unwrap();
+    let request = FitRequest {
+        k_min: Some(1),
+        ..FitRequest::default()
+    };
+    let f = fit(&poisson, &counts, &request).outcome.unwrap();
+    assert_eq!(f.estimates[0].exact, None);
+    let f = fitted(&build_problem(YULE_SIMON).unwrap(), &counts);
+    assert_eq!(f.estimates[0].exact, None);
 }
 
 /// How many of 20 seeds put every estimate within 3 standard errors of the truth.
@@ -401,6 +456,17 @@ fn rendered_fit_and_sample_reports() {
     ]);
     insta::assert_snapshot!(
         "sample_yule_simon_text",
+        String::from_utf8(out.stdout).unwrap()
+    );
+    // An exact estimate: the Poisson mean of the RAND visit counts.
+    let out = common::telescope(&[
+        "fit",
+        "param lambda > 0\na(k)/a(k-1) = lambda/k for k >= 1",
+        "--data",
+        "tests/reference/randhie_mdvis_counts.csv",
+    ]);
+    insta::assert_snapshot!(
+        "fit_poisson_exact_text",
         String::from_utf8(out.stdout).unwrap()
     );
     let out = common::telescope(&[

@@ -8,6 +8,7 @@
 //! parametric-bootstrap p-value.
 
 pub mod bootstrap;
+pub mod exact;
 pub mod gof;
 pub mod likelihood;
 pub mod maximise;
@@ -15,6 +16,8 @@ pub mod optimise;
 pub mod profile;
 
 use std::collections::BTreeMap;
+
+use num_traits::ToPrimitive;
 
 use crate::algebra::Q;
 use crate::data::Counts;
@@ -50,6 +53,9 @@ pub struct Estimate {
     pub name: String,
     pub integer: bool,
     pub value: f64,
+    /// The estimate as an exact fraction, when the likelihood equation has a rational root
+    /// (`exact.rs`); `value` is then its nearest double.
+    pub exact: Option<Q>,
     /// From the observed information; None for an integer parameter.
     pub standard_error: Option<f64>,
     /// The central-difference step used for it.
@@ -175,8 +181,21 @@ fn fit_likelihood(
             "the likelihood keeps increasing as {towards}, the end of the declared range of {param}: there is no maximum inside the range, so no estimate is given"
         )),
     })?;
-    let theta = maximum.theta.clone();
-    let best = maximum.log_likelihood;
+    let mut theta = maximum.theta.clone();
+    let mut best = maximum.log_likelihood;
+    let exact = match theta.as_slice() {
+        [found] => {
+            exact::exact_estimate(&like.family, &like.fixed, &like.free, &like.counts, *found)
+        }
+        _ => None,
+    };
+    if let Some(q) = &exact {
+        theta[0] = q.to_f64().unwrap_or(theta[0]);
+        let at_exact = like.log_likelihood(&theta);
+        if at_exact.is_finite() {
+            best = at_exact;
+        }
+    }
     let law = like
         .law(&theta)
         .map_err(|e| FitFailure::NotALaw(e.message().to_string()))?;
@@ -200,6 +219,7 @@ fn fit_likelihood(
             name: p.name.clone(),
             integer: p.integer,
             value: theta[i],
+            exact: exact.clone(),
             standard_error: se,
             step: slot.map(|s| steps[s]),
             interval,

@@ -111,6 +111,11 @@ impl LawFamily {
         })
     }
 
+    /// The total Σ_{k≥k_min} a(k)/a(k_min) in closed form with its theorem, when one applies.
+    pub fn closed_total(&self) -> Option<&(Term, Theorem)> {
+        self.closed.as_ref()
+    }
+
     /// The law at `values` (every parameter given).
     pub fn at(&self, values: &BTreeMap<String, Q>) -> Result<LawAt, LawError> {
         let form = self.form.substituted(values);

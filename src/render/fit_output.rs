@@ -102,6 +102,14 @@ fn fitted_text(out: &mut String, fitted: &Fitted, n: u64) {
                 se,
             );
         }
+        for e in fitted.estimates.iter().filter(|e| e.exact.is_some()) {
+            let _ = writeln!(
+                out,
+                "{} = {} exactly: the likelihood equation is mean = sample mean, and this is its rational root",
+                e.name,
+                e.exact.as_ref().map_or(String::new(), |q| q.to_string())
+            );
+        }
     }
     let _ = writeln!(out);
     let _ = writeln!(
@@ -218,6 +226,7 @@ pub fn fit_json(report: &FitReport, heading: &FitHeading) -> Value {
                         "name": e.name,
                         "integer": e.integer,
                         "value": if e.integer { (e.value.round() as i64).to_string() } else { number(e.value, 12) },
+                        "exact": e.exact.as_ref().map(|q| q.to_string()),
                         "standard_error": e.standard_error.map(|s| number(s, 6)),
                         "hessian_step": e.step.map(|h| number(h, 3)),
                         "interval": e.interval.as_ref().map(|i| json!({ "lower": end_json(&i.lower), "upper": end_json(&i.upper) })),
