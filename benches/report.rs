@@ -19,6 +19,7 @@ fn request() -> ReportRequest {
         k: None,
         terms: 2,
         prob: Vec::new(),
+        budget: telescope::budget::Budget::default(),
     }
 }
 

@@ -24,7 +24,10 @@ fn sweep_of(text: &str, vary: &str) -> usize {
     let axis = spec::parse_vary(vary, &model, &fixed, &spacing).unwrap();
     let plan = Plan::new(&model, &fixed).unwrap();
     let request = SweepRequest::new(vec![axis], spec::default_quantities(), 30);
-    run(&plan, &request, ProgressMode::Hidden).points.len()
+    run(&plan, &request, ProgressMode::Hidden)
+        .expect("no budget")
+        .points
+        .len()
 }
 
 fn sweeps(c: &mut Criterion) {

@@ -12,6 +12,7 @@ use num_traits::ToPrimitive;
 
 use crate::algebra::Q;
 use crate::analysis::{analyse, Analysis, AnalysisRequest, TailReport};
+use crate::budget::{Budget, Estimate, OverBudget};
 use crate::numeric::{rational_to_decimal, to_rug_rational};
 use crate::piecewise::build_piecewise_table;
 use crate::plot::PlotNumber;
@@ -36,6 +37,13 @@ pub struct ReportRequest {
     pub terms: usize,
     /// `--prob` events under the normalised law ("k >= 10", "2 <= k <= N").
     pub prob: Vec<String>,
+    /// The time budget: the analysis's sums are judged before they start, the table once
+    /// its rows are known.
+    pub budget: Budget,
+}
+
+fn over_budget(over: OverBudget) -> Error {
+    Error::Usage(over.to_string())
 }
 
 /// Rows of the default table: a power-law tail over four decades, a geometric or faster
@@ -60,6 +68,9 @@ pub fn build_report(input: &Input, request: &ReportRequest) -> Result<ReportPage
         .filter(|p| !values.contains_key(&p.name))
         .map(|p| p.name.clone())
         .collect();
+    let free = missing.len();
+    let sums = Estimate::solve(request.terms, free, free.eq(&0).then_some(request.digits));
+    request.budget.admit(&sums).map_err(over_budget)?;
     let analysis_request = AnalysisRequest {
         terms: request.terms,
         digits: request.digits,
@@ -83,6 +94,13 @@ pub fn build_report(input: &Input, request: &ReportRequest) -> Result<ReportPage
             Some(text) => session::parse_k_range(text)?,
             None => default_rows(&solved, analysis.as_ref()),
         };
+        let rows = (&to - &from + 1u32).to_u64().unwrap_or(u64::MAX);
+        let factors = model.pieces.iter().map(|p| p.ratio.factors.len()).max();
+        let table_cost = Estimate::table(rows, request.digits, 64.min(rows), factors.unwrap_or(1));
+        request
+            .budget
+            .admit(&sums.clone().and(table_cost))
+            .map_err(over_budget)?;
         let base_value = session::base_value(&model, &values, None)?;
         let table_request = TableRequest {
             from: from.clone(),

@@ -383,6 +383,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                     SweepFormat::Svg => Out::Svg,
                 },
                 quiet,
+                budget,
             })
         }
         Command::Report {
@@ -405,6 +406,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                 k,
                 terms: 2,
                 prob,
+                budget,
             };
             let text = session::read_input(&input)?;
             let page = html_report::build_report(&text, &request)?;
@@ -436,6 +438,7 @@ fn run(cli: Cli) -> Result<String, Error> {
                 k_min,
                 bootstrap,
                 seed: seed.unwrap_or_else(session::clock_seed),
+                budget,
             };
             run_fit(&inputs, &data, &options, format)
         }
@@ -445,7 +448,7 @@ fn run(cli: Cli) -> Result<String, Error> {
             n,
             seed,
             format,
-        } => run_sample(&input, &params, n, seed, format),
+        } => run_sample(&input, &params, n, seed, format, budget),
         Command::Table {
             input,
             k,
@@ -530,12 +533,16 @@ fn run_sample(
     n: usize,
     seed: Option<u64>,
     format: SampleFormat,
+    budget: Budget,
 ) -> Result<String, Error> {
     let input = session::read_input(input)?;
     let problem = session::load_problem(&input)?;
     let values = session::parse_values(&problem, params)?;
+    admit(budget, &Estimate::sample(n as u64))?;
     let seed = seed.unwrap_or_else(session::clock_seed);
+    let spinner = budget::Progress::spinner("drawing", Estimate::sample(n as u64).seconds);
     let run = session::run_sample(&problem, &values, n, seed)?;
+    drop(spinner);
     Ok(match format {
         SampleFormat::Text => {
             let rule = render::sample_output::rule_text(&problem);

@@ -331,6 +331,7 @@ pub struct FitOptions<'a> {
     pub k_min: Option<i64>,
     pub bootstrap: usize,
     pub seed: u64,
+    pub budget: crate::budget::Budget,
 }
 
 /// Largest `--bootstrap`.
@@ -381,7 +382,13 @@ pub fn run_fit(
             .max(),
         None => None,
     };
-    let mut out = Vec::new();
+    // Every model's cost is estimated before any is fitted; the whole command has one budget.
+    let started = std::time::Instant::now();
+    let deadline = std::time::Duration::try_from_secs_f64(options.budget.max_seconds)
+        .ok()
+        .and_then(|d| started.checked_add(d));
+    let mut planned = Vec::new();
+    let mut estimate: Option<crate::budget::Estimate> = None;
     for (name, problem) in problems {
         let own: Vec<String> = options
             .params
@@ -403,7 +410,31 @@ pub fn run_fit(
             seed: options.seed,
             progress: true,
             estimates_only: false,
+            deadline,
+            max_seconds: Some(options.budget.max_seconds),
         };
+        let cost = crate::fit::estimate_cost(&problem, counts, &request);
+        estimate = Some(match estimate {
+            None => cost,
+            Some(e) => e.and(cost),
+        });
+        planned.push((name, problem, request));
+    }
+    if let Some(estimate) = &estimate {
+        options
+            .budget
+            .admit(estimate)
+            .map_err(|over| Error::Usage(over.to_string()))?;
+    }
+    // The bootstrap draws its own bar; without one the fit shows a spinner when it is long.
+    let expected = estimate.map_or(0.0, |e| e.seconds);
+    let spinner = if options.bootstrap == 0 {
+        crate::budget::Progress::spinner("fitting", expected)
+    } else {
+        crate::budget::Progress::hidden()
+    };
+    let mut out = Vec::new();
+    for (name, problem, request) in planned {
         let report = crate::fit::fit(&problem, counts, &request);
         out.push(FittedModel {
             name,
@@ -411,5 +442,6 @@ pub fn run_fit(
             report,
         });
     }
+    drop(spinner);
     Ok(out)
 }

@@ -225,3 +225,116 @@ fn a_later_rate_piece_without_a_range_is_refused() {
     );
     telescope::fuzzing::parse_bytes(model.as_bytes());
 }
+
+/// Every long-running command judges its cost first: `report`, `sweep`, `fit` (with its
+/// bootstrap) and `sample` refuse work beyond the budget with the estimate and the
+/// `--max-seconds` to pass, before doing any of it.
+#[test]
+fn every_command_is_judged_against_the_budget() {
+    let poisson = "param lambda > 0\na(k)/a(k-1) = lambda/k for k >= 1";
+    let data = "tests/reference/randhie_mdvis_counts.csv";
+    let cases: Vec<(Vec<&str>, &str)> = vec![
+        (
+            vec!["fit", poisson, "--data", data, "--bootstrap", "100000"],
+            "100000 bootstrap refits of 20190 observations",
+        ),
+        (
+            vec![
+                "sample",
+                poisson,
+                "--param",
+                "lambda=2",
+                "--n",
+                "100000000",
+                "--max-seconds",
+                "1",
+            ],
+            "100000000 draws",
+        ),
+        (
+            vec![
+                "sweep",
+                "examples/citation_growth.rule",
+                "--vary",
+                "rho=0.1..0.9",
+                "--points",
+                "1000",
+                "--max-seconds",
+                "0.000001",
+            ],
+            "1000 points of 5 quantities at 30 digits",
+        ),
+        (
+            vec![
+                "report",
+                "examples/citation_growth.rule",
+                "--param",
+                "rho=3/10",
+                "--k",
+                "1..10000000",
+                "-o",
+                "-",
+            ],
+            "10000000 rows at 30 digits",
+        ),
+    ];
+    for (args, work) in cases {
+        let started = std::time::Instant::now();
+        let out = common::telescope(&args);
+        let stderr = text(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{args:?}: {stderr}");
+        assert!(
+            stderr.contains(work) && stderr.contains("--max-seconds"),
+            "{args:?}: {stderr}"
+        );
+        assert!(out.stdout.is_empty(), "{args:?} printed before refusing");
+        // Refused before the work: far below the 10 s budget (a generous bound, not a timing goal).
+        assert!(started.elapsed().as_secs() < 5, "{args:?}");
+    }
+}
+
+/// A fit whose deadline passes stops at once and says so, with no estimate; the bootstrap's
+/// refits stop the same way.
+#[test]
+fn a_fit_past_its_deadline_says_so_without_an_estimate() {
+    use telescope::data::Counts;
+    use telescope::fit::{fit, FitFailure, FitRequest};
+    let problem = build_problem("param lambda > 0\na(k)/a(k-1) = lambda/k for k >= 1").unwrap();
+    let counts = Counts::from_pairs([(0, 7), (1, 12), (2, 9), (3, 5)]);
+    let request = FitRequest {
+        deadline: Some(std::time::Instant::now()),
+        max_seconds: Some(3.0),
+        ..FitRequest::default()
+    };
+    let report = fit(&problem, &counts, &request);
+    match report.outcome {
+        Err(FitFailure::OverBudget(why)) => {
+            assert!(
+                why.contains("3 s") && why.contains("--max-seconds 12"),
+                "{why}"
+            )
+        }
+        other => panic!("{other:?}"),
+    }
+}
+
+/// A binomial's N on overdispersed counts has no maximum (the likelihood rises towards the
+/// Poisson limit as N → ∞, common practice). The integer search once stalled on rounding near
+/// N = 2^30 and the profile intervals then ran for over ten minutes; it is now a boundary
+/// maximum, said in words.
+#[test]
+fn a_binomial_n_without_a_maximum_is_a_boundary() {
+    use telescope::data::Counts;
+    use telescope::fit::{fit, FitFailure, FitRequest};
+    let problem = build_problem(
+        "param N integer >= 1\nparam p in (0, 1)\na(k)/a(k-1) = p (N-k+1)/((1-p) k) for k >= 1",
+    )
+    .unwrap();
+    // Sample variance 1.79 above the mean 1.64.
+    let counts = Counts::from_pairs([(0, 7), (1, 12), (2, 9), (3, 5), (4, 2), (6, 1)]);
+    let report = fit(&problem, &counts, &FitRequest::default());
+    match report.outcome {
+        Err(FitFailure::Boundary(why)) => assert!(why.contains("N → ∞"), "{why}"),
+        other => panic!("{other:?}"),
+    }
+}

@@ -56,12 +56,7 @@ pub fn bootstrap_ks(
             let mut stream = Stream::new(seed, r as u64 + 1);
             let draws = sampler.draws(&mut stream, n);
             let counts = Counts::from_observations(draws);
-            let replicate = Likelihood::new(
-                like.family.clone(),
-                counts,
-                like.fixed.clone(),
-                like.free.clone(),
-            );
+            let replicate = like.derived(counts, like.fixed.clone(), like.free.clone());
             let outcome = maximise(&replicate, Some(theta))
                 .ok()
                 .and_then(|m| replicate.law(&m.theta).ok())

@@ -3,6 +3,9 @@
 //! distinct k with their counts.
 
 use std::collections::BTreeMap;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
+use std::time::Instant;
 
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
@@ -78,6 +81,10 @@ pub struct Likelihood {
     ks: Vec<i64>,
     ns: Vec<f64>,
     pub n: f64,
+    /// Past this instant every evaluation is −∞ and `timed_out` is set, so that every loop of
+    /// the optimiser, the profiles and the bootstrap ends at once (the command's budget).
+    deadline: Option<Instant>,
+    timed_out: Arc<AtomicBool>,
 }
 
 impl Likelihood {
@@ -98,7 +105,34 @@ impl Likelihood {
             ks,
             ns,
             n,
+            deadline: None,
+            timed_out: Arc::new(AtomicBool::new(false)),
         }
+    }
+
+    /// The same likelihood, stopping at `deadline`.
+    pub fn with_deadline(mut self, deadline: Option<Instant>) -> Likelihood {
+        self.deadline = deadline;
+        self
+    }
+
+    /// Another likelihood over the same law family (a profile with one more parameter held,
+    /// a bootstrap replicate's counts) under the same deadline.
+    pub fn derived(
+        &self,
+        counts: Counts,
+        fixed: BTreeMap<String, Q>,
+        free: Vec<FreeParam>,
+    ) -> Likelihood {
+        let mut like = Likelihood::new(self.family.clone(), counts, fixed, free);
+        like.deadline = self.deadline;
+        like.timed_out = Arc::clone(&self.timed_out);
+        like
+    }
+
+    /// Whether the deadline passed during an evaluation (results since are not to be used).
+    pub fn timed_out(&self) -> bool {
+        self.timed_out.load(Ordering::Relaxed)
     }
 
     /// The parameter point: fixed values and θ (exact: a double is a dyadic rational;
@@ -130,6 +164,10 @@ impl Likelihood {
     /// ℓ(θ), or −∞ where the rule is not a summable probability law or gives an observed k
     /// probability 0.
     pub fn log_likelihood(&self, theta: &[f64]) -> f64 {
+        if self.deadline.is_some_and(|d| Instant::now() >= d) {
+            self.timed_out.store(true, Ordering::Relaxed);
+            return f64::NEG_INFINITY;
+        }
         match self.law(theta) {
             Ok(law) => self.log_likelihood_of(&law),
             Err(_) => f64::NEG_INFINITY,

@@ -12,6 +12,8 @@ const GRID: [f64; 7] = [-6.0, -3.0, -1.0, 0.0, 1.0, 3.0, 6.0];
 pub const HESSIAN_STEP: f64 = 1e-4;
 /// Integer search reach.
 const INTEGER_REACH: i64 = 1 << 40;
+/// An integer estimate this far out is checked for a likelihood that is merely flat there.
+const FLAT_REACH: i64 = 1 << 10;
 
 /// The best point of ℓ over the free parameters.
 #[derive(Clone, Debug)]
@@ -315,6 +317,31 @@ fn discrete_search(
         }
         if !improved {
             break;
+        }
+    }
+    // A likelihood still rising towards an open end can stall on rounding alone (a binomial N
+    // on overdispersed data tends to the Poisson limit): if ℓ at four times the distance from
+    // the start stays within rounding of the best, or has no maximum there, the maximum is not
+    // where the search stopped.
+    for (slot, (lo, hi)) in bounds.iter().enumerate() {
+        let at = current[slot];
+        let far = at.saturating_mul(4).clamp(*lo, *hi);
+        if at.abs() < FLAT_REACH || far == at {
+            continue;
+        }
+        let mut trial = current.clone();
+        trial[slot] = far;
+        // No maximum over the real parameters out there either (they ran to an end of
+        // their range) is the same verdict.
+        let flat = evaluate(&trial, Some(&best.theta)).map_or(true, |m| {
+            m.log_likelihood >= best.log_likelihood - 1e-10 * best.log_likelihood.abs()
+        });
+        if flat {
+            let p = &like.free[integer_index[slot]];
+            return Err(NoMaximum::Boundary {
+                param: p.name.clone(),
+                towards: format!("{} → {}", p.name, if at > 0 { "∞" } else { "−∞" }),
+            });
         }
     }
     Ok(best)

@@ -16,6 +16,7 @@ pub mod optimise;
 pub mod profile;
 
 use std::collections::BTreeMap;
+use std::time::Instant;
 
 use num_traits::ToPrimitive;
 
@@ -45,6 +46,11 @@ pub struct FitRequest {
     /// Only the estimates and standard errors (no intervals, no goodness of fit): for
     /// simulation studies.
     pub estimates_only: bool,
+    /// Stop here (the command's time budget): a fit not done by then says so, with no
+    /// estimate.
+    pub deadline: Option<Instant>,
+    /// The budget the deadline comes from, for the words of a stop.
+    pub max_seconds: Option<f64>,
 }
 
 /// One estimated parameter.
@@ -85,6 +91,8 @@ pub enum FitFailure {
     NotALaw(String),
     Boundary(String),
     Flat(String),
+    /// The time budget ran out before the fit finished.
+    OverBudget(String),
 }
 
 impl FitFailure {
@@ -93,7 +101,8 @@ impl FitFailure {
             FitFailure::NoData(m)
             | FitFailure::NotALaw(m)
             | FitFailure::Boundary(m)
-            | FitFailure::Flat(m) => m,
+            | FitFailure::Flat(m)
+            | FitFailure::OverBudget(m) => m,
         }
     }
 
@@ -103,6 +112,7 @@ impl FitFailure {
             FitFailure::NotALaw(_) => "not_a_law",
             FitFailure::Boundary(_) => "boundary_maximum",
             FitFailure::Flat(_) => "flat_likelihood",
+            FitFailure::OverBudget(_) => "over_budget",
         }
     }
 }
@@ -122,6 +132,55 @@ pub struct FitReport {
 
 /// Fits `problem` to `counts`.
 pub fn fit(problem: &Problem, counts: &Counts, request: &FitRequest) -> FitReport {
+    let (mut report, like) = prepare(problem, counts, request);
+    if let Some(like) = like {
+        report.outcome = fit_likelihood(problem, &like, request);
+    }
+    report
+}
+
+/// What fitting `problem` to `counts` is expected to cost, from one timed evaluation of ℓ
+/// (`budget::Estimate::fit` counts the evaluations); trivial when the fit ends before any.
+pub fn estimate_cost(
+    problem: &Problem,
+    counts: &Counts,
+    request: &FitRequest,
+) -> crate::budget::Estimate {
+    let (report, like) = prepare(problem, counts, request);
+    let Some(like) = like.map(|l| l.with_deadline(None)) else {
+        return crate::budget::Estimate::trivial("a fit that ends before it starts");
+    };
+    // Timed away from the centre of the scales: a double such as 0.5 makes the exact
+    // arithmetic of the law cheaper than at the points the optimiser visits. The first
+    // evaluation may fill caches; a quick one is timed again at another point.
+    let mut seconds = f64::INFINITY;
+    for offset in [0.3, -0.7] {
+        let probe = shifted_probe(&like, offset);
+        let started = Instant::now();
+        like.log_likelihood(&probe);
+        seconds = seconds.min(started.elapsed().as_secs_f64());
+        if seconds > 0.01 {
+            break;
+        }
+    }
+    let integer = like.free.iter().filter(|p| p.integer).count();
+    crate::budget::Estimate::fit(crate::budget::FitWork {
+        evaluation_seconds: seconds,
+        real: like.free.len() - integer,
+        integer,
+        intervals: !request.estimates_only,
+        bootstrap: request.bootstrap,
+        observations: report.observations,
+        threads: rayon::current_num_threads(),
+    })
+}
+
+/// The report's counts and, when there is something to fit, the likelihood.
+fn prepare(
+    problem: &Problem,
+    counts: &Counts,
+    request: &FitRequest,
+) -> (FitReport, Option<Likelihood>) {
     let free: Vec<FreeParam> = problem
         .params
         .iter()
@@ -141,7 +200,7 @@ pub fn fit(problem: &Problem, counts: &Counts, request: &FitRequest) -> FitRepor
         Ok(f) => f,
         Err(e) => {
             report.outcome = Err(FitFailure::NotALaw(e.message().to_string()));
-            return report;
+            return (report, None);
         }
     };
     report.k_min = family.k_min;
@@ -156,18 +215,29 @@ pub fn fit(problem: &Problem, counts: &Counts, request: &FitRequest) -> FitRepor
             family.k_min,
             family.k_min
         )));
-        return report;
+        return (report, None);
     }
     if kept.total() == 0 {
         report.outcome = Err(FitFailure::NoData(format!(
             "no observation lies in the support k ≥ {}",
             family.k_min
         )));
-        return report;
+        return (report, None);
     }
-    let like = Likelihood::new(family, kept, request.fixed.clone(), free);
-    report.outcome = fit_likelihood(problem, &like, request);
-    report
+    let like =
+        Likelihood::new(family, kept, request.fixed.clone(), free).with_deadline(request.deadline);
+    (report, Some(like))
+}
+
+/// The words of a fit stopped by its budget.
+fn over_budget(request: &FitRequest, what: &str) -> String {
+    let budget = request
+        .max_seconds
+        .unwrap_or(crate::budget::DEFAULT_MAX_SECONDS);
+    format!(
+        "{what} did not finish within the time budget of {budget} s, so nothing from it is reported; pass --max-seconds {} to allow more",
+        (budget * 4.0).ceil()
+    )
 }
 
 fn fit_likelihood(
@@ -175,7 +245,12 @@ fn fit_likelihood(
     like: &Likelihood,
     request: &FitRequest,
 ) -> Result<Fitted, FitFailure> {
-    let maximum = maximise::maximise(like, None).map_err(|e| match e {
+    let stopped = || FitFailure::OverBudget(over_budget(request, "the fit"));
+    let maximum = maximise::maximise(like, None);
+    if like.timed_out() {
+        return Err(stopped());
+    }
+    let maximum = maximum.map_err(|e| match e {
         NoMaximum::Nowhere => nowhere(like),
         NoMaximum::Boundary { param, towards } => FitFailure::Boundary(format!(
             "the likelihood keeps increasing as {towards}, the end of the declared range of {param}: there is no maximum inside the range, so no estimate is given"
@@ -229,10 +304,13 @@ fn fit_likelihood(
     let full = !request.estimates_only;
     let chi_square = full.then(|| gof::chi_square(&like.counts, &law, like.free.len()));
     let ks_distance = full.then(|| gof::ks_distance(&like.counts, &law));
+    if like.timed_out() {
+        return Err(stopped());
+    }
     let bootstrap = ks_distance
         .filter(|_| request.bootstrap > 0)
         .map(|distance| {
-            bootstrap::bootstrap_ks(
+            let found = bootstrap::bootstrap_ks(
                 problem,
                 like,
                 &theta,
@@ -240,7 +318,12 @@ fn fit_likelihood(
                 request.bootstrap,
                 request.seed,
                 request.progress,
-            )
+            );
+            if like.timed_out() {
+                Err(over_budget(request, "the bootstrap"))
+            } else {
+                found
+            }
         });
     Ok(Fitted {
         estimates,
@@ -254,20 +337,30 @@ fn fit_likelihood(
     })
 }
 
-/// Why ℓ is −∞ everywhere: the law at a representative point, or the data.
-fn nowhere(like: &Likelihood) -> FitFailure {
-    let probe: Vec<f64> = like
-        .free
+/// A representative point of the declared ranges: the centre of each real parameter's
+/// scale, 1 (or the nearest allowed integer) for an integer one.
+fn probe_point(like: &Likelihood) -> Vec<f64> {
+    shifted_probe(like, 0.0)
+}
+
+/// The probe point with each real parameter moved `offset` along its unbounded scale.
+fn shifted_probe(like: &Likelihood, offset: f64) -> Vec<f64> {
+    like.free
         .iter()
         .map(|p| {
             if p.integer {
                 let (lo, hi) = p.integer_bounds();
                 lo.max(hi.min(1)) as f64
             } else {
-                p.scale.to_param(0.0)
+                p.scale.to_param(offset)
             }
         })
-        .collect();
+        .collect()
+}
+
+/// Why ℓ is −∞ everywhere: the law at a representative point, or the data.
+fn nowhere(like: &Likelihood) -> FitFailure {
+    let probe = probe_point(like);
     match like.law(&probe) {
         Err(e) => FitFailure::NotALaw(format!(
             "the rule is not a normalisable probability law anywhere tried in the declared ranges (e.g. {})",

@@ -86,7 +86,7 @@ fn profile_at(like: &Likelihood, index: usize, value: f64, theta_hat: &[f64]) ->
     free.remove(index);
     let mut start = theta_hat.to_vec();
     start.remove(index);
-    let reduced = Likelihood::new(like.family.clone(), like.counts.clone(), fixed, free);
+    let reduced = like.derived(like.counts.clone(), fixed, free);
     maximise(&reduced, Some(&start)).map_or(f64::NEG_INFINITY, |m| m.log_likelihood)
 }
 

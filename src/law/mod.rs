@@ -25,8 +25,6 @@ use crate::model::{Param, Problem};
 const TOTAL_BITS: u32 = 128;
 /// Digits of a numeric total.
 const NUMERIC_DIGITS: u32 = 17;
-/// Longest stretch of k scanned for the sign of R(k) before the factors turn positive.
-const MAX_SIGN_SCAN: i64 = 1_000_000;
 
 /// How the total Σ_{k≥k_min} a(k)/a(k_min) was found.
 #[derive(Clone, Debug, PartialEq)]
@@ -315,12 +313,19 @@ fn check_signs(
         turn = turn.max(root.saturating_add(1));
     }
     let end = last.map_or(turn, |l| l.min(turn));
-    if end.saturating_sub(k_min) > MAX_SIGN_SCAN {
-        return Err(LawError::Unsupported(format!(
-            "the factors of R(k) change sign up to k = {end}; too far to check the signs"
-        )));
+    // The sign of R(k) changes only where k passes a root −s of a factor: checking the first
+    // k, and each integer on either side of every root, covers every run of equal signs
+    // (a scan of every k made a binomial with a large N cost N rational steps per point).
+    let mut candidates: Vec<i64> = vec![k_min + 1, end];
+    for (s, _) in shifts {
+        let below = (-s).floor().to_integer().to_i64().unwrap_or(i64::MAX);
+        candidates.push(below);
+        candidates.push(below.saturating_add(1));
     }
-    for k in (k_min + 1)..=end {
+    candidates.retain(|k| *k > k_min && *k <= end);
+    candidates.sort_unstable();
+    candidates.dedup();
+    for k in candidates {
         let kq = Q::from_integer(k.into());
         let mut negative = constant.is_negative();
         for (s, e) in shifts {

@@ -30,6 +30,7 @@ pub struct SweepArgs {
     pub digits: u32,
     pub format: SweepFormat,
     pub quiet: bool,
+    pub budget: crate::budget::Budget,
 }
 
 /// Largest `--digits` (as for `solve`, whose sums the sweep shares).
@@ -87,13 +88,14 @@ pub fn run_command(args: SweepArgs) -> Result<String, Error> {
     if let Some(text) = &args.quantities {
         spec::check_terms(&quantities, &plan.base_index, text)?;
     }
-    let request = SweepRequest::new(axes, quantities, args.digits);
+    let mut request = SweepRequest::new(axes, quantities, args.digits);
+    request.budget = args.budget;
     let mode = if args.quiet {
         ProgressMode::Hidden
     } else {
         ProgressMode::Auto
     };
-    let sweep = run(&plan, &request, mode);
+    let sweep = run(&plan, &request, mode).map_err(|over| Error::Usage(over.to_string()))?;
     Ok(match args.format {
         SweepFormat::Text => sweep_output::sweep_text(&sweep),
         SweepFormat::Csv => sweep_output::sweep_csv(&sweep),

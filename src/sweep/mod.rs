@@ -18,7 +18,7 @@
 //! let axis = spec::parse_vary("rho=0.1..0.9", &model, &fixed, &spacing).unwrap();
 //! let plan = Plan::new(&model, &fixed).unwrap();
 //! let request = SweepRequest::new(vec![axis], spec::default_quantities(), 30);
-//! let sweep = telescope::sweep::run(&plan, &request, ProgressMode::Hidden);
+//! let sweep = telescope::sweep::run(&plan, &request, ProgressMode::Hidden).unwrap();
 //! // the variance is finite for rho > 1/2, exactly
 //! assert_eq!(sweep.boundaries[0].location.to_string(), "1/2");
 //! ```
@@ -37,6 +37,7 @@ use rayon::prelude::*;
 
 use crate::algebra::Q;
 use crate::analysis::{analyse, Analysis, AnalysisRequest, Inequality, RisingForm};
+use crate::budget::{Budget, Estimate, OverBudget};
 use crate::diagnostic::Diagnostic;
 use crate::model::{Model, Problem};
 use crate::solve::{rule_conditions, solve, Condition, Solution};
@@ -143,6 +144,9 @@ pub struct SweepRequest {
     /// Points at which closed-form numbers are also summed numerically, as evidence (the
     /// first, the last and evenly spread ones); 0 for none.
     pub check_points: usize,
+    /// The time budget, judged after the first and last points are timed (unlimited unless
+    /// set: `telescope sweep` sets the command's).
+    pub budget: Budget,
 }
 
 impl SweepRequest {
@@ -152,6 +156,9 @@ impl SweepRequest {
             quantities,
             digits,
             check_points: DEFAULT_CHECK_POINTS,
+            budget: Budget {
+                max_seconds: f64::INFINITY,
+            },
         }
     }
 }
@@ -263,7 +270,7 @@ fn check_indices(n: usize, wanted: usize) -> Vec<usize> {
 
 /// Runs the sweep: the first point alone (to time it and decide on a progress bar), the rest
 /// in parallel, in order.
-pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
+pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Result<Sweep, OverBudget> {
     let points = grid(&request.axes);
     let checked = check_indices(points.len(), request.check_points);
     let names: Vec<&str> = request.axes.iter().map(|a| a.name.as_str()).collect();
@@ -287,12 +294,40 @@ pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
             (vec![cell; request.quantities.len()], Vec::new())
         })
     };
-    let started = Instant::now();
-    let first = evaluate(0);
-    let first_point = started.elapsed();
+    // The first two points are timed before the rest start. The first also fills caches
+    // and, like every checked point, sums numerically as evidence; the second is an ordinary
+    // point: the checked points at the first's cost and the others at the second's, over the
+    // threads, are the sweep's estimate for the budget.
+    let timed = |i: usize| {
+        let started = Instant::now();
+        let out = evaluate(i);
+        (out, started.elapsed().as_secs_f64())
+    };
+    let (first, first_seconds) = timed(0);
+    let (second, second_seconds) = if points.len() > 1 {
+        let (out, seconds) = timed(1);
+        (Some(out), seconds)
+    } else {
+        (None, 0.0)
+    };
     let threads = rayon::current_num_threads();
-    let bar = progress::start(mode, first_point, points.len(), threads);
-    let rest: Vec<_> = (1..points.len())
+    let rest = points.len().saturating_sub(2);
+    let checked_rest = checked.iter().filter(|i| **i >= 2).count();
+    let estimate = Estimate::probed(
+        rest - checked_rest,
+        second_seconds,
+        threads,
+        format!(
+            "{} points of {} quantities at {} digits",
+            points.len(),
+            request.quantities.len(),
+            request.digits
+        ),
+    )
+    .plus_seconds(checked_rest as f64 * first_seconds / threads.max(1) as f64);
+    request.budget.admit(&estimate)?;
+    let bar = progress::start(mode, estimate.seconds, rest);
+    let others: Vec<_> = (2..points.len())
         .into_par_iter()
         .map(|i| {
             let out = evaluate(i);
@@ -301,9 +336,10 @@ pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
         })
         .collect();
     bar.finish();
+    let results = std::iter::once(first).chain(second).chain(others);
     let mut checks = Vec::new();
     let mut out_points = Vec::with_capacity(points.len());
-    for (i, (cells, point_checks)) in std::iter::once(first).chain(rest).enumerate() {
+    for (i, (cells, point_checks)) in results.enumerate() {
         for (quantity, rel_diff) in point_checks {
             checks.push(Check {
                 point: i,
@@ -317,7 +353,7 @@ pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
         });
     }
     let boundaries = boundaries::find(plan, request, &out_points);
-    Sweep {
+    Ok(Sweep {
         sequence: plan.model.sequence.clone(),
         index: plan.model.index.clone(),
         base_index: plan.base_index.clone(),
@@ -328,15 +364,9 @@ pub fn run(plan: &Plan, request: &SweepRequest, mode: ProgressMode) -> Sweep {
         points: out_points,
         boundaries,
         checks,
-        first_point,
+        first_point: Duration::from_secs_f64(first_seconds),
         threads,
-    }
-}
-
-/// A cost estimate in seconds from one timed point (the sweep's own, local estimate; the
-/// points are independent, so the rest divide over the threads).
-pub fn estimate_seconds(first_point: Duration, points: usize, threads: usize) -> f64 {
-    first_point.as_secs_f64() * points as f64 / threads.max(1) as f64
+    })
 }
 
 #[cfg(test)]

@@ -2,7 +2,6 @@
 //! sweep is expected to take more than a second, never with `--quiet`.
 
 use std::io::IsTerminal;
-use std::time::Duration;
 
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 
@@ -35,19 +34,16 @@ impl Bar {
     }
 }
 
-/// Starts a bar over the points after the first, when the mode and the estimate call for one.
-pub fn start(mode: ProgressMode, first_point: Duration, points: usize, threads: usize) -> Bar {
-    let estimate = super::estimate_seconds(first_point, points, threads);
+/// Starts a bar over `points` points expected to take `estimate` seconds, when the mode and
+/// the estimate call for one.
+pub fn start(mode: ProgressMode, estimate: f64, points: usize) -> Bar {
     if mode == ProgressMode::Hidden
         || estimate <= SHOW_AFTER_SECONDS
         || !std::io::stderr().is_terminal()
     {
         return Bar(None);
     }
-    let bar = ProgressBar::with_draw_target(
-        Some(points.saturating_sub(1) as u64),
-        ProgressDrawTarget::stderr(),
-    );
+    let bar = ProgressBar::with_draw_target(Some(points as u64), ProgressDrawTarget::stderr());
     bar.set_style(
         ProgressStyle::with_template(
             "sweep {bar:40} {pos}/{len} points, {elapsed} (about {eta} left)",
