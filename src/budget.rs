@@ -34,9 +34,10 @@ const ROW_DIGIT_SECONDS: f64 = 4.0e-8;
 /// Seconds per checked row, digit and factor of R(k): the closed form by log-Gamma (20,000
 /// checked rows of a two-factor rule at 50 digits: 5.3 s; at 500 digits: 48 s).
 const CHECKED_ROW_SECONDS: f64 = 2.5e-6;
-/// `solve` with values: the numeric sums grow with the square of the digits (500 digits of
-/// the citation rule: 2.2 s; 1000: about 8 s).
-const SUM_DIGIT2_SECONDS: f64 = 8.0e-6;
+/// `solve` with values: the numeric sums grow with about the cube of the digits (the
+/// citation rule: 250 digits 0.05 s, 500 digits 0.28 s, 1000 digits 1.5 s; twice that here,
+/// for rules with more factors and a finite variance).
+const SUM_DIGIT3_SECONDS: f64 = 3.0e-9;
 /// Symbolic tail corrections: about ×1.37 per term (--terms 12 on the citation rule 0.3 s,
 /// 16: 1.5 s, 20: 5 s), times the number of parameters in the shifts.
 const TERMS_SECONDS: f64 = 0.007;
@@ -117,7 +118,7 @@ impl Estimate {
         } else {
             TERMS_SECONDS * TERMS_GROWTH.powi(terms as i32 - 12) * parameters.max(1) as f64
         };
-        let sums = digits.map_or(0.0, |d| SUM_DIGIT2_SECONDS * (d as f64).powi(2));
+        let sums = digits.map_or(0.0, |d| SUM_DIGIT3_SECONDS * (d as f64).powi(3));
         let mut work = format!("{terms} tail corrections");
         if let Some(d) = digits {
             work += &format!(", sums to {d} digits");

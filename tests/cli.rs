@@ -167,7 +167,7 @@ fn bad_arguments_exit_2() {
         vec!["solve", "examples/citation_growth.rule", "--param", "rho=2"],
         // Limits that keep every command within seconds (README, "Limits").
         vec!["solve", GROWTH, "--terms", "21"],
-        vec!["solve", GROWTH, "--digits", "501"],
+        vec!["solve", GROWTH, "--digits", "1001"],
         vec![
             "table", GROWTH, "--k", "1..10", "--param", "rho=0.3", "--digits", "10001",
         ],

@@ -11,13 +11,14 @@ use crate::algebra::Q;
 use crate::numeric::to_rug_rational;
 
 /// `ζ(s, n)` at `prec` bits with a bound on its absolute error (truncation plus rounding),
-/// using Bernoulli numbers `bernoulli` (index = order). `None` when `s ≤ 1` or the series
+/// using Bernoulli numbers `bernoulli` (index = order), already rounded to at least `prec`
+/// bits (converting the exact ones at every call was most of the time at 1000 digits). `None` when `s ≤ 1` or the series
 /// does not get below `target` relative size with the numbers given.
 pub fn hurwitz_zeta(
     s: &Q,
     n: u64,
     prec: u32,
-    bernoulli: &[rug::Rational],
+    bernoulli: &[Float],
     target: &Float,
 ) -> Option<(Float, Float)> {
     let s_f = Float::with_val(prec, to_rug_rational(s));
@@ -39,8 +40,7 @@ pub fn hurwitz_zeta(
         if 2 * i >= bernoulli.len() {
             return None;
         }
-        let b = Float::with_val(prec, &bernoulli[2 * i]);
-        let term = Float::with_val(prec, &running * &b);
+        let term = Float::with_val(prec, &running * &bernoulli[2 * i]);
         // next running: multiply by (s+2i−1)(s+2i)/((2i+1)(2i+2) N²)
         let mut next = Float::with_val(
             prec,
@@ -49,8 +49,8 @@ pub fn hurwitz_zeta(
         next *= Float::with_val(prec, &s_f + (2 * i) as u32);
         next /= ((2 * i + 1) * (2 * i + 2)) as u32;
         next /= &n_sq;
-        let b_next = Float::with_val(prec, &bernoulli[(2 * i + 2).min(bernoulli.len() - 1)]);
-        let next_term = Float::with_val(prec, &next * &b_next).abs();
+        let b_next = &bernoulli[(2 * i + 2).min(bernoulli.len() - 1)];
+        let next_term = Float::with_val(prec, &next * b_next).abs();
         value += &term;
         let small =
             Float::with_val(prec, &next_term * 2u32) <= Float::with_val(prec, &value * target);
@@ -81,7 +81,10 @@ mod tests {
     fn matches_riemann_zeta_minus_the_first_terms() {
         // ζ(2, 100) = π²/6 − Σ_{k<100} k^(−2) (DLMF 25.11.1 with DLMF 25.6.1, ζ(2) = π²/6)
         let prec = 300;
-        let b = bernoulli_numbers_gmp(80);
+        let b: Vec<Float> = bernoulli_numbers_gmp(80)
+            .iter()
+            .map(|r| Float::with_val(prec, r))
+            .collect();
         let target = Float::with_val(prec, Float::i_exp(1, -260));
         let (v, err) = hurwitz_zeta(&q(2, 1), 100, prec, &b, &target).unwrap();
         let mut direct = Float::with_val(prec, rug::float::Constant::Pi).square() / 6u32;

@@ -16,7 +16,7 @@ use rug::{Float, Rational};
 use super::bernoulli::bernoulli_numbers_gmp;
 use super::hurwitz::hurwitz_zeta;
 use super::hypergeometric::RisingForm;
-use super::tail::{numeric_corrections_gmp, tail_law};
+use super::tail::{numeric_corrections_float, tail_law, FloatCorrections};
 use crate::algebra::Q;
 use crate::numeric::{bits_for_digits, to_rug_integer, to_rug_rational, GUARD_BITS};
 
@@ -396,11 +396,14 @@ fn euler_maclaurin(
         .ok_or_else(|| SumFailure::Unsupported("the prefactor has a pole".into()))?;
     // Terms shrink like n/(2πK) with K ≈ 4·digits: about digits/2.5 of them reach the target.
     let max_terms = (digits as usize / 2 + 24).min(600);
-    let corrections = numeric_corrections_gmp(&rule.form, &Default::default(), max_terms)
+    let corrections = numeric_corrections_float(&rule.form, &Default::default(), max_terms, prec)
         .ok_or_else(|| SumFailure::Unsupported("symbolic shifts".into()))?;
     // x^(−s) with s up to max_terms: each Euler–Maclaurin term gains ≥ (2πK/(s+2i))², so
     // this many Bernoulli numbers always suffice (common practice sizing).
-    let bernoulli = bernoulli_numbers_gmp(2 * max_terms + 80);
+    let bernoulli: Vec<Float> = bernoulli_numbers_gmp(2 * max_terms + 80)
+        .iter()
+        .map(|b| Float::with_val(prec, b))
+        .collect();
     for _attempt in 0..6 {
         if head_len > MAX_HEAD {
             return Err(SumFailure::Unsupported(format!(
@@ -418,6 +421,9 @@ fn euler_maclaurin(
         let mut sums: [Option<Bounded>; 3] = [None, None, None];
         let mut used_terms = 0usize;
         let mut ok = true;
+        // ζ(n − θ − j, K) depends on n − j only: the sums of k·a(k) and k²·a(k) reuse the
+        // total's values (half the time at 1000 digits).
+        let mut zetas = ZetaCache::default();
         for (j, slot) in sums.iter_mut().enumerate() {
             let jq = Q::from_integer((j as i64).into());
             if &theta + &jq >= minus_one {
@@ -426,7 +432,8 @@ fn euler_maclaurin(
             match tail_sum(
                 &corrections,
                 &theta,
-                &jq,
+                j,
+                &mut zetas,
                 big_k,
                 &c_value,
                 prec,
@@ -470,17 +477,21 @@ fn constant_of(rule: &NumericRule) -> Q {
     rule.form.constant.as_constant().unwrap_or_else(Q::zero)
 }
 
+/// ζ(m − θ, K) with its error bound by m = n − j, for one K.
+type ZetaCache = std::collections::BTreeMap<i64, Option<(Float, Float)>>;
+
 /// `Σ_{k≥K} k^j C k^θ Σ_n c_n k^(−n) = C Σ_n c_n ζ(n − θ − j, K)` with its error bound and the
 /// number of expansion terms used; `None` when the series stops shrinking first.
 #[allow(clippy::too_many_arguments)]
 fn tail_sum(
-    corrections: &[Rational],
+    corrections: &FloatCorrections,
     theta: &Q,
-    j: &Q,
+    j: usize,
+    zetas: &mut ZetaCache,
     big_k: u64,
     c_value: &Float,
     prec: u32,
-    bernoulli: &[Rational],
+    bernoulli: &[Float],
     target: &Float,
     head_sum: &Float,
 ) -> Option<(Float, Float, usize)> {
@@ -489,10 +500,17 @@ fn tail_sum(
     let zeta_target = Float::with_val(64, target / 16u32);
     let scale = Float::with_val(64, head_sum.abs_ref());
     let mut previous: Option<Float> = None;
-    for (n, c) in corrections.iter().enumerate() {
-        let s = Q::from_integer((n as i64).into()) - theta - j;
-        let c_is_zero = *c == 0;
-        let (zeta, zeta_err) = hurwitz_zeta(&s, big_k, prec, bernoulli, &zeta_target)?;
+    let values = &corrections.values;
+    for (n, c) in values.iter().enumerate() {
+        let shift = n as i64 - j as i64;
+        let c_is_zero = c.is_zero();
+        let (zeta, zeta_err) = zetas
+            .entry(shift)
+            .or_insert_with(|| {
+                let s = Q::from_integer(shift.into()) - theta;
+                hurwitz_zeta(&s, big_k, prec, bernoulli, &zeta_target)
+            })
+            .clone()?;
         let c_f = Float::with_val(prec, c);
         let term = Float::with_val(prec, &c_f * &zeta) * c_value;
         let magnitude = Float::with_val(64, term.abs_ref());
@@ -500,7 +518,7 @@ fn tail_sum(
         // Gamma quotient with real parameters beyond its largest shift, common practice).
         if c_is_zero && n > 0 {
             // An exact expansion (e.g. a rational a(k)) contributes nothing more.
-            if corrections[n..].iter().all(|c| *c == 0) {
+            if values[n..].iter().all(|c| c.is_zero()) {
                 return Some((total, error, n));
             }
         }
@@ -513,14 +531,14 @@ fn tail_sum(
                 return None;
             }
         }
-        previous = if c.is_zero() {
-            previous
-        } else {
-            Some(magnitude)
-        };
+        previous = if c_is_zero { previous } else { Some(magnitude) };
         total += &term;
         let rel = Float::with_val(64, &c_f * c_value).abs() * zeta_err;
         error += rel;
+        // The coefficient's own error (MPFR beyond the exact ones), times |ζ·C|.
+        let c_error = Float::with_val(64, &corrections.errors[n] * &zeta).abs()
+            * Float::with_val(64, c_value.abs_ref());
+        error += c_error;
     }
     None
 }

@@ -327,6 +327,10 @@ pub fn probabilities(solved: &ModelSolution, events: &[Event], digits: u32) -> V
             })
             .collect();
     }
+    if events.is_empty() {
+        // The law's total is summed eagerly: nothing to ask of it, nothing to sum.
+        return Vec::new();
+    }
     let law = Law::new(solved, digits);
     events
         .iter()
