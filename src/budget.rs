@@ -192,7 +192,7 @@ impl Estimate {
     }
 
     /// Work of `items` independent pieces, one of which was timed at `each` seconds, spread
-    /// over `threads` (a sweep's points after its first).
+    /// over `threads` (a sweep's ordinary points, from its second point).
     pub fn probed(items: usize, each: f64, threads: usize, work: impl Into<String>) -> Estimate {
         Estimate {
             less: "fewer points or digits",

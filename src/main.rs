@@ -538,9 +538,10 @@ fn run_sample(
     let input = session::read_input(input)?;
     let problem = session::load_problem(&input)?;
     let values = session::parse_values(&problem, params)?;
-    admit(budget, &Estimate::sample(n as u64))?;
+    let estimate = Estimate::sample(n as u64);
+    admit(budget, &estimate)?;
     let seed = seed.unwrap_or_else(session::clock_seed);
-    let spinner = budget::Progress::spinner("drawing", Estimate::sample(n as u64).seconds);
+    let spinner = budget::Progress::spinner("drawing", estimate.seconds);
     let run = session::run_sample(&problem, &values, n, seed)?;
     drop(spinner);
     Ok(match format {

@@ -66,7 +66,7 @@ pub fn exact_estimate(
     roots
         .into_iter()
         .map(|(root, _)| root)
-        .filter(|root| inside(param, root) && !pole(&mean, theta, root))
+        .filter(|root| param.param.admits(root) && !pole(&mean, theta, root))
         .find(|root| (root.to_f64().unwrap_or(f64::NAN) - found).abs() <= tolerance)
 }
 
@@ -74,17 +74,4 @@ pub fn exact_estimate(
 fn pole(mean: &RatFunc, theta: &str, value: &Q) -> bool {
     let at = BTreeMap::from([(theta.to_string(), value.clone())]);
     mean.denom().eval(&at).map_or(true, |d| d.is_zero())
-}
-
-/// Strictly inside the declared range, or on a closed end.
-fn inside(param: &FreeParam, value: &Q) -> bool {
-    let above = match &param.param.lower {
-        Some((lo, closed)) => value > lo || (*closed && value == lo),
-        None => true,
-    };
-    let below = match &param.param.upper {
-        Some((hi, closed)) => value < hi || (*closed && value == hi),
-        None => true,
-    };
-    above && below
 }
