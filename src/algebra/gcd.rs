@@ -28,6 +28,15 @@ pub(crate) fn gcd(a: &Poly, b: &Poly) -> Poly {
     if b.is_zero() {
         return normalise(a);
     }
+    // Cheap exits before any splitting: a non-zero constant is a unit, and gcd(a, a) is a
+    // itself. Both are frequent (rational functions over the denominator 1, sums of equal
+    // denominators) and give the same normalised answer as the general path.
+    if is_constant(a) || is_constant(b) {
+        return Poly::one();
+    }
+    if a == b {
+        return normalise(a);
+    }
     let (monomial_a, a) = split_monomial_content(a);
     let (monomial_b, b) = split_monomial_content(b);
     let common_monomial = Poly::from_term(monomial_gcd(&monomial_a, &monomial_b), Q::one());
@@ -39,6 +48,11 @@ pub(crate) fn gcd(a: &Poly, b: &Poly) -> Poly {
     let content = gcd(&content_a, &content_b);
     let primitive = primitive_gcd_in(primitive_a, primitive_b, &main, bound);
     normalise(&(&(&content * &primitive) * &common_monomial))
+}
+
+/// Whether a non-zero polynomial has no variable.
+fn is_constant(p: &Poly) -> bool {
+    p.term_count() == 1 && p.leading_term().is_some_and(|(m, _)| m.is_one())
 }
 
 /// The largest monomial dividing every term, and the quotient.
@@ -95,9 +109,14 @@ fn normalise(p: &Poly) -> Poly {
 /// Content of `p` as a polynomial in `var` (the gcd of its coefficients, which do not contain
 /// `var`) and the primitive part `p / content`. For non-zero `p` only.
 fn content_and_primitive_in(p: &Poly, var: &str) -> (Poly, Poly) {
+    let coeffs = p.coeffs_in(var);
+    if coeffs.iter().any(|c| !c.is_zero() && is_constant(c)) {
+        // A constant coefficient: the content is a unit.
+        return (Poly::one(), normalise(p));
+    }
     let mut content = Poly::zero();
-    for coeff in p.coeffs_in(var) {
-        content = gcd(&content, &coeff);
+    for coeff in coeffs.iter().filter(|c| !c.is_zero()) {
+        content = gcd(&content, coeff);
         if content.is_one() {
             return (content, normalise(p));
         }

@@ -110,7 +110,12 @@ impl Poly {
     }
 
     pub fn is_one(&self) -> bool {
-        self.as_constant().is_some_and(|c| c.is_one())
+        self.terms.len() == 1
+            && self
+                .terms
+                .iter()
+                .next()
+                .is_some_and(|(key, c)| key.0.is_one() && c.is_one())
     }
 
     /// `Some(c)` when no variable occurs (`Some(0)` for the zero polynomial).
@@ -236,6 +241,12 @@ impl Poly {
         if c.is_zero() {
             return Poly::zero();
         }
+        if c.is_one() {
+            return self.clone();
+        }
+        if c.denom().is_one() && c.numer().is_negative() && c.numer().magnitude().is_one() {
+            return -self;
+        }
         Poly {
             terms: self
                 .terms
@@ -313,8 +324,12 @@ impl Poly {
         let mut numer_gcd = BigInt::zero();
         let mut denom_lcm = BigInt::one();
         for (_, c) in self.terms() {
-            numer_gcd = numer_gcd.gcd(c.numer());
-            denom_lcm = denom_lcm.lcm(c.denom());
+            if !numer_gcd.is_one() {
+                numer_gcd = numer_gcd.gcd(c.numer());
+            }
+            if !c.denom().is_one() {
+                denom_lcm = denom_lcm.lcm(c.denom());
+            }
         }
         let mut content = Q::new(numer_gcd, denom_lcm);
         if lead.is_negative() {

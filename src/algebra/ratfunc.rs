@@ -69,6 +69,9 @@ impl RatFunc {
         if num.is_zero() {
             return RatFunc::zero();
         }
+        if den.is_one() {
+            return RatFunc { num, den };
+        }
         let (content, den) = den.content_and_primitive();
         RatFunc {
             num: num.scale(&content.recip()),

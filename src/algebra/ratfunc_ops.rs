@@ -25,6 +25,29 @@ impl Add<&RatFunc> for &RatFunc {
         // a/b + c/d = (a·(d/g) + c·(b/g)) / ((b/g)·d), and since a/b, c/d are reduced, only
         // gcd(numerator, g) can cancel, so the big gcd is never taken.
         let (a, b, c, d) = (self.numer(), self.denom(), other.numer(), other.denom());
+        // Fast paths with the same result as the general one below.
+        if self.is_zero() {
+            return other.clone();
+        }
+        if other.is_zero() {
+            return self.clone();
+        }
+        if b.is_one() && d.is_one() {
+            // A sum of polynomials is canonical over the denominator 1.
+            return RatFunc::from_poly(a + c);
+        }
+        if b == d {
+            // g = b: only gcd(a + c, b) can cancel.
+            let num = a + c;
+            let h = Poly::gcd(&num, b);
+            return canonical(exact(&num, &h), exact(b, &h));
+        }
+        if b.is_one() || d.is_one() {
+            // a + c/d = (a·d + c)/d with gcd(a·d + c, d) = gcd(c, d) = 1, and d is already
+            // primitive with a positive leading coefficient.
+            let (p, n, den) = if b.is_one() { (a, c, d) } else { (c, a, b) };
+            return canonical(p * den + n, den.clone());
+        }
         let g = Poly::gcd(b, d);
         let b_rest = exact(b, &g);
         let d_rest = exact(d, &g);
@@ -48,6 +71,13 @@ impl Mul<&RatFunc> for &RatFunc {
         // reduced, (a/b)(c/d) = ((a/g1)(c/g2)) / ((b/g2)(d/g1)) for g1 = gcd(a, d),
         // g2 = gcd(c, b) is reduced as well.
         let (a, b, c, d) = (self.numer(), self.denom(), other.numer(), other.denom());
+        if self.is_zero() || other.is_zero() {
+            return RatFunc::zero();
+        }
+        if b.is_one() && d.is_one() {
+            // A product of polynomials is canonical over the denominator 1.
+            return RatFunc::from_poly(a * c);
+        }
         let g1 = Poly::gcd(a, d);
         let g2 = Poly::gcd(c, b);
         canonical(
