@@ -44,9 +44,23 @@ impl PartialOrd for TermKey {
 
 /// A polynomial with rational coefficients; no zero coefficient is ever stored, so the zero
 /// polynomial has no terms and equal polynomials are equal values.
-#[derive(Clone, Debug, PartialEq, Eq, Hash, Default)]
+#[derive(Clone, Debug, PartialEq, Eq, Default)]
 pub struct Poly {
     pub(crate) terms: BTreeMap<TermKey, Q>,
+}
+
+impl std::hash::Hash for Poly {
+    /// Hashes each coefficient's numerator and denominator: `Ratio`'s own `Hash` runs a
+    /// continued-fraction expansion (so that unreduced ratios hash alike), which the always
+    /// reduced coefficients here do not need. Equal polynomials still hash alike.
+    fn hash<H: std::hash::Hasher>(&self, state: &mut H) {
+        state.write_usize(self.terms.len());
+        for (key, c) in &self.terms {
+            key.0.hash(state);
+            c.numer().hash(state);
+            c.denom().hash(state);
+        }
+    }
 }
 
 impl Poly {

@@ -305,6 +305,60 @@ mod tests {
     }
 
     #[test]
+    fn difference_if_number_agrees_with_subtraction() {
+        let (x, y) = (v("x"), v("y"));
+        let over = |a: &RatFunc, b: &RatFunc| a.checked_div(b).unwrap();
+        let values = [
+            c(3),
+            c(0),
+            RatFunc::constant(q(1, 2)),
+            &x + c(1),
+            &x + RatFunc::constant(q(5, 2)),
+            &x - c(1),
+            &(&x + &y) + c(4),
+            &x * &y,
+            &(&x * &y) + c(1),
+            over(&c(1), &(&x - c(1))),
+            over(&x, &(&x - c(1))),
+            over(&(&x + &y), &(&x - c(1))),
+            over(&c(1), &(&y + c(2))),
+        ];
+        for a in &values {
+            for b in &values {
+                let expected = (a - b).as_constant();
+                assert_eq!(a.difference_if_number(b), expected, "{a} − {b}");
+            }
+        }
+    }
+
+    #[test]
+    fn sums_and_products_take_the_short_paths_to_the_same_forms() {
+        // Each short path (zero, both denominators 1, equal denominators, one denominator 1)
+        // against the value it must equal, built another way.
+        let (x, y) = (v("x"), v("y"));
+        let over = |a: &RatFunc, b: &RatFunc| a.checked_div(b).unwrap();
+        let d = &x - c(1);
+        assert_eq!(&RatFunc::zero() + &over(&y, &d), over(&y, &d));
+        assert_eq!(&over(&y, &d) + &RatFunc::zero(), over(&y, &d));
+        // x/(x − 1) + (−1)/(x − 1) = 1: the common factor cancels.
+        assert_eq!(&over(&x, &d) + &over(&c(-1), &d), c(1));
+        // y/(x − 1) + 2y/(x − 1) = 3y/(x − 1)
+        assert_eq!(
+            &over(&y, &d) + &over(&(c(2) * &y), &d),
+            over(&(c(3) * &y), &d)
+        );
+        // y + 1/(x − 1) = (xy − y + 1)/(x − 1)
+        let expected = frac(
+            Poly::var("x") * Poly::var("y") - Poly::var("y") + Poly::one(),
+            Poly::var("x") - Poly::one(),
+        );
+        assert_eq!(&y + &over(&c(1), &d), expected);
+        assert_eq!(&over(&c(1), &d) + &y, expected);
+        assert_eq!(&(&x + &y) * &(&x - &y), &(&x * &x) - &(&y * &y));
+        assert_eq!(&RatFunc::zero() * &over(&y, &d), RatFunc::zero());
+    }
+
+    #[test]
     fn display() {
         assert_eq!(RatFunc::zero().to_string(), "0");
         assert_eq!(v("x").to_string(), "x");
