@@ -29,6 +29,50 @@ fn solve_rules(c: &mut Criterion) {
     }
 }
 
+/// The whole symbolic `telescope solve FILE` (no --param values) through the library calls
+/// `main` makes: read and parse the model file, solve, analyse (tail law with two
+/// corrections, conditions, total, mean, variance), render the text. Issue 13's goals are
+/// ≤ 5 ms for the citation example and ≤ 20 ms for the ten-factor bench rule per whole
+/// process; this bench is the in-process part of those (process start-up is measured with
+/// hyperfine, see README).
+fn whole_symbolic_solve(c: &mut Criterion) {
+    use telescope::analysis::{analyse, AnalysisRequest};
+    use telescope::probability::probabilities;
+    use telescope::render::{solve_report, SolveFormat, SolveLayout, SolveReport};
+    use telescope::session;
+    let files = [
+        ("citation", "examples/citation_growth.rule"),
+        ("ten_factor_file", "benches/data/ten_factors.rule"),
+    ];
+    let run = |path: &str| -> String {
+        let input = session::read_input(path).unwrap();
+        let model = session::load_model(&input).unwrap();
+        let values = session::parse_values_for(&model.params, &[]).unwrap();
+        let solved = session::run_solve_model(&input, &model, &values).unwrap();
+        let events = session::parse_events(&model, &[]).unwrap();
+        let request = AnalysisRequest::default();
+        let probabilities = probabilities(&solved, &events, request.digits);
+        let piece = &solved.pieces[0];
+        let analysis = analyse(&piece.problem, &piece.solution, &request).unwrap();
+        let report = SolveReport {
+            analysis: Some(&analysis),
+            digits: request.digits,
+            probabilities: &probabilities,
+        };
+        solve_report(
+            &model,
+            &solved,
+            &report,
+            SolveFormat::Text,
+            SolveLayout::default(),
+        )
+    };
+    for (name, path) in files {
+        assert!(run(path).contains("closed form"), "{path} solves");
+        c.bench_function(&format!("whole_solve/{name}"), |b| b.iter(|| run(path)));
+    }
+}
+
 /// Conditions solved on the declared ranges: one parameter with a rational end (the citation
 /// variance), an irrational end (a cubic), and a linear solution in two parameters.
 fn solve_conditions(c: &mut Criterion) {
@@ -80,5 +124,11 @@ fn split_cubic(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, solve_rules, solve_conditions, split_cubic);
+criterion_group!(
+    benches,
+    solve_rules,
+    whole_symbolic_solve,
+    solve_conditions,
+    split_cubic
+);
 criterion_main!(benches);

@@ -22,15 +22,33 @@ use super::poly::Poly;
 use super::rational::Q;
 
 pub(crate) fn gcd(a: &Poly, b: &Poly) -> Poly {
+    gcd_with(a, b, true)
+}
+
+/// [`gcd`], with the cheap exits switched off at the top level when `shortcuts` is false (so
+/// that the tests can compare both routes).
+fn gcd_with(a: &Poly, b: &Poly, shortcuts: bool) -> Poly {
     if a.is_zero() {
         return normalise(b);
     }
     if b.is_zero() {
         return normalise(a);
     }
+    // Cheap exits before any splitting: a non-zero constant is a unit, and gcd(a, a) is a
+    // itself. Both are frequent (rational functions over the denominator 1, sums of equal
+    // denominators) and give the same normalised answer as the general path.
+    if shortcuts && (is_constant(a) || is_constant(b)) {
+        return Poly::one();
+    }
+    if shortcuts && a == b {
+        return normalise(a);
+    }
     let (monomial_a, a) = split_monomial_content(a);
     let (monomial_b, b) = split_monomial_content(b);
     let common_monomial = Poly::from_term(monomial_gcd(&monomial_a, &monomial_b), Q::one());
+    if let Some(rest) = small_case_gcd(&a, &b).filter(|_| shortcuts) {
+        return normalise(&(&rest * &common_monomial));
+    }
     let Some((main, bound)) = choose_main_variable(&a, &b) else {
         return common_monomial;
     };
@@ -39,6 +57,38 @@ pub(crate) fn gcd(a: &Poly, b: &Poly) -> Poly {
     let content = gcd(&content_a, &content_b);
     let primitive = primitive_gcd_in(primitive_a, primitive_b, &main, bound);
     normalise(&(&(&content * &primitive) * &common_monomial))
+}
+
+/// The gcd (up to a unit) of two non-zero polynomials free of monomial factors, in the cases
+/// that need no recursion; `None` otherwise.
+/// - A constant is a unit.
+/// - A polynomial of total degree 1 is irreducible, so the gcd is that polynomial when it
+///   divides the other and 1 when it does not.
+/// - Two polynomials in the same single variable: Euclid's algorithm over Q on the dense
+///   coefficients, which is what the degree bound would compute anyway.
+fn small_case_gcd(a: &Poly, b: &Poly) -> Option<Poly> {
+    if is_constant(a) || is_constant(b) {
+        return Some(Poly::one());
+    }
+    for (linear, other) in [(a, b), (b, a)] {
+        if linear.total_degree() == 1 {
+            let divides = other.div_exact(linear).is_some();
+            return Some(if divides { linear.clone() } else { Poly::one() });
+        }
+    }
+    let variables = a.variables();
+    if variables.len() == 1 && b.variables() == variables {
+        let var = variables.first().expect("one variable");
+        let coeffs = |p: &Poly| p.univariate_coeffs(var).expect("only this variable");
+        let g = dense::gcd(&coeffs(a), &coeffs(b));
+        return Some(Poly::from_univariate(var, &g));
+    }
+    None
+}
+
+/// Whether a non-zero polynomial has no variable.
+fn is_constant(p: &Poly) -> bool {
+    p.term_count() == 1 && p.leading_term().is_some_and(|(m, _)| m.is_one())
 }
 
 /// The largest monomial dividing every term, and the quotient.
@@ -95,9 +145,14 @@ fn normalise(p: &Poly) -> Poly {
 /// Content of `p` as a polynomial in `var` (the gcd of its coefficients, which do not contain
 /// `var`) and the primitive part `p / content`. For non-zero `p` only.
 fn content_and_primitive_in(p: &Poly, var: &str) -> (Poly, Poly) {
+    let coeffs = p.coeffs_in(var);
+    if coeffs.iter().any(|c| !c.is_zero() && is_constant(c)) {
+        // A constant coefficient: the content is a unit.
+        return (Poly::one(), normalise(p));
+    }
     let mut content = Poly::zero();
-    for coeff in p.coeffs_in(var) {
-        content = gcd(&content, &coeff);
+    for coeff in coeffs.iter().filter(|c| !c.is_zero()) {
+        content = gcd(&content, coeff);
         if content.is_one() {
             return (content, normalise(p));
         }
@@ -292,6 +347,40 @@ mod tests {
         assert_eq!(Poly::gcd(&a, &b), &k + &rho);
         // Content only: gcd(rho k + rho, rho^2) = rho.
         assert_eq!(Poly::gcd(&(&rho * &k + &rho), &rho.pow(2)), rho);
+    }
+
+    #[test]
+    fn cheap_exits_agree_with_the_general_route() {
+        use super::gcd_with;
+        let (x, y, z) = (v("x"), v("y"), v("z"));
+        let pieces = [
+            c(6),
+            Poly::constant(q(-2, 3)),
+            &x + c(1),
+            c(2) * &x - c(3),
+            &x + &y,
+            c(3) * &x - c(2) * &y + &z,
+            &y - c(1),
+            x.pow(2) + c(1),
+            (&x + c(1)) * (&x - c(2)),
+            (&x + c(1)).pow(2) * c(4),
+            &x * (&x - c(2)),
+            &x * &y + c(1),
+            (&x + &y) * (&y - c(1)) * &z,
+            x.pow(3) - c(8),
+        ];
+        for a in &pieces {
+            for b in &pieces {
+                for extra in [c(1), &x + c(1), &x * &y] {
+                    let (a, b) = (a * &extra, b * &extra);
+                    assert_eq!(
+                        gcd_with(&a, &b, true),
+                        gcd_with(&a, &b, false),
+                        "gcd({a}, {b})"
+                    );
+                }
+            }
+        }
     }
 
     #[test]

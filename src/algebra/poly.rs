@@ -25,8 +25,8 @@ impl fmt::Display for UnboundVariable {
 
 impl std::error::Error for UnboundVariable {}
 
-/// Storage key that sorts monomials in the canonical term order, so a `BTreeMap` lists terms
-/// the way [`Poly::terms`] promises and equal polynomials are equal maps.
+/// Storage key that sorts monomials in the canonical term order, so the sorted term list is
+/// the order [`Poly::terms`] promises and equal polynomials are equal lists.
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
 pub(crate) struct TermKey(pub(crate) Monomial);
 
@@ -44,9 +44,27 @@ impl PartialOrd for TermKey {
 
 /// A polynomial with rational coefficients; no zero coefficient is ever stored, so the zero
 /// polynomial has no terms and equal polynomials are equal values.
-#[derive(Clone, Debug, PartialEq, Eq, Hash, Default)]
+///
+/// The terms are a vector sorted by [`TermKey`], each monomial once: the polynomials met here
+/// have a handful of terms, and a sorted vector is one exact-sized allocation where a
+/// `BTreeMap` node takes about a kilobyte.
+#[derive(Clone, Debug, PartialEq, Eq, Default)]
 pub struct Poly {
-    pub(crate) terms: BTreeMap<TermKey, Q>,
+    pub(crate) terms: Vec<(TermKey, Q)>,
+}
+
+impl std::hash::Hash for Poly {
+    /// Hashes each coefficient's numerator and denominator: `Ratio`'s own `Hash` runs a
+    /// continued-fraction expansion (so that unreduced ratios hash alike), which the always
+    /// reduced coefficients here do not need. Equal polynomials still hash alike.
+    fn hash<H: std::hash::Hasher>(&self, state: &mut H) {
+        state.write_usize(self.terms.len());
+        for (key, c) in &self.terms {
+            key.0.hash(state);
+            c.numer().hash(state);
+            c.denom().hash(state);
+        }
+    }
 }
 
 impl Poly {
@@ -79,11 +97,26 @@ impl Poly {
 
     /// Sum of `(monomial, coefficient)` pairs; repeated monomials are added together.
     pub fn from_terms(terms: impl IntoIterator<Item = (Monomial, Q)>) -> Self {
-        let mut p = Poly::zero();
-        for (m, c) in terms {
-            p.add_term(m, c);
+        let mut terms: Vec<(TermKey, Q)> =
+            terms.into_iter().map(|(m, c)| (TermKey(m), c)).collect();
+        // Stable sort, then equal monomials summed in place.
+        terms.sort_by(|a, b| a.0.cmp(&b.0));
+        let mut out: Vec<(TermKey, Q)> = Vec::with_capacity(terms.len());
+        for (key, c) in terms {
+            match out.last_mut() {
+                Some((last, sum)) if *last == key => *sum += c,
+                _ => {
+                    if out.last().is_some_and(|(_, sum)| sum.is_zero()) {
+                        out.pop();
+                    }
+                    out.push((key, c));
+                }
+            }
         }
-        p
+        if out.last().is_some_and(|(_, sum)| sum.is_zero()) {
+            out.pop();
+        }
+        Poly { terms: out }
     }
 
     /// Adds `c * m` in place, dropping the term if it cancels.
@@ -92,16 +125,15 @@ impl Poly {
             return;
         }
         let key = TermKey(m);
-        match self.terms.get_mut(&key) {
-            Some(existing) => {
+        match self.terms.binary_search_by(|(k, _)| k.cmp(&key)) {
+            Ok(at) => {
+                let existing = &mut self.terms[at].1;
                 *existing += c;
                 if existing.is_zero() {
-                    self.terms.remove(&key);
+                    self.terms.remove(at);
                 }
             }
-            None => {
-                self.terms.insert(key, c);
-            }
+            Err(at) => self.terms.insert(at, (key, c)),
         }
     }
 
@@ -110,7 +142,11 @@ impl Poly {
     }
 
     pub fn is_one(&self) -> bool {
-        self.as_constant().is_some_and(|c| c.is_one())
+        self.terms.len() == 1
+            && self
+                .terms
+                .first()
+                .is_some_and(|(key, c)| key.0.is_one() && c.is_one())
     }
 
     /// `Some(c)` when no variable occurs (`Some(0)` for the zero polynomial).
@@ -123,19 +159,19 @@ impl Poly {
     }
 
     fn constant_term_if_alone(&self) -> Option<Q> {
-        let (key, c) = self.terms.iter().next()?;
+        let (key, c) = self.terms.first()?;
         key.0.is_one().then(|| c.clone())
     }
 
     pub fn variables(&self) -> BTreeSet<String> {
         self.terms
-            .keys()
-            .flat_map(|key| key.0.factors().map(|(name, _)| name.to_string()))
+            .iter()
+            .flat_map(|(key, _)| key.0.factors().map(|(name, _)| name.to_string()))
             .collect()
     }
 
     pub fn contains_var(&self, var: &str) -> bool {
-        self.terms.keys().any(|key| key.0.degree_in(var) > 0)
+        self.terms.iter().any(|(key, _)| key.0.degree_in(var) > 0)
     }
 
     /// Total degree; 0 for constants and for the zero polynomial.
@@ -146,8 +182,8 @@ impl Poly {
     /// Degree in one variable; 0 when it does not occur (and for the zero polynomial).
     pub fn degree_in(&self, var: &str) -> u32 {
         self.terms
-            .keys()
-            .map(|key| key.0.degree_in(var))
+            .iter()
+            .map(|(key, _)| key.0.degree_in(var))
             .max()
             .unwrap_or(0)
     }
@@ -236,6 +272,12 @@ impl Poly {
         if c.is_zero() {
             return Poly::zero();
         }
+        if c.is_one() {
+            return self.clone();
+        }
+        if c.denom().is_one() && c.numer().is_negative() && c.numer().magnitude().is_one() {
+            return -self;
+        }
         Poly {
             terms: self
                 .terms
@@ -313,8 +355,12 @@ impl Poly {
         let mut numer_gcd = BigInt::zero();
         let mut denom_lcm = BigInt::one();
         for (_, c) in self.terms() {
-            numer_gcd = numer_gcd.gcd(c.numer());
-            denom_lcm = denom_lcm.lcm(c.denom());
+            if !numer_gcd.is_one() {
+                numer_gcd = numer_gcd.gcd(c.numer());
+            }
+            if !c.denom().is_one() {
+                denom_lcm = denom_lcm.lcm(c.denom());
+            }
         }
         let mut content = Q::new(numer_gcd, denom_lcm);
         if lead.is_negative() {
@@ -456,6 +502,34 @@ mod tests {
         assert_eq!((&p * &x()).univariate_coeffs("k"), None);
         assert_eq!(Poly::zero().univariate_coeffs("k"), Some(vec![]));
         assert_eq!(c(3, 1).univariate_coeffs("k"), Some(vec![q(3, 1)]));
+    }
+
+    #[test]
+    fn sorted_term_lists_merge_and_cancel() {
+        // from_terms sums repeated monomials in any order and drops what cancels, like
+        // adding the terms one at a time.
+        let pieces = [
+            (Monomial::var("x"), q(1, 2)),
+            (Monomial::one(), q(3, 1)),
+            (Monomial::var("y"), q(-1, 1)),
+            (Monomial::var("x"), q(-1, 2)),
+            (Monomial::from_factors([("x", 1), ("y", 2)]), q(5, 1)),
+            (Monomial::one(), q(-3, 1)),
+            (Monomial::var("y"), q(2, 1)),
+            (Monomial::var("z"), q(0, 1)),
+        ];
+        let mut one_by_one = Poly::zero();
+        for (m, c) in pieces.iter().cloned() {
+            one_by_one.add_term(m, c);
+        }
+        assert_eq!(Poly::from_terms(pieces.iter().cloned()), one_by_one);
+        assert_eq!(one_by_one, c(5, 1) * x() * y().pow(2) + y());
+        assert_eq!(&one_by_one - &one_by_one, Poly::zero());
+        assert_eq!((x() + y()) - x(), y());
+        assert_eq!((x() - c(1, 1)) * (x() + c(1, 1)), x().pow(2) - c(1, 1));
+        let mut sum = x();
+        sum += &(-x());
+        assert!(sum.is_zero());
     }
 
     #[test]

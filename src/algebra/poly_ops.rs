@@ -1,38 +1,82 @@
 //! Ring operators for [`Poly`]: `+`, `-`, `*` for every owned/borrowed pairing, unary `-`,
 //! and the compound assignments.
 
+use std::cmp::Ordering;
 use std::ops::{Add, AddAssign, Mul, MulAssign, Neg, Sub, SubAssign};
 
+use num_traits::{One, Zero};
+
 use super::poly::Poly;
+use super::rational::Q;
+
+/// `a + sign·b` by merging the two sorted term lists.
+fn merge(a: &Poly, b: &Poly, negate: bool) -> Poly {
+    let (x, y) = (&a.terms, &b.terms);
+    let mut terms = Vec::with_capacity(x.len() + y.len());
+    let (mut i, mut j) = (0, 0);
+    let signed = |c: &Q| if negate { -c } else { c.clone() };
+    while i < x.len() && j < y.len() {
+        match x[i].0.cmp(&y[j].0) {
+            Ordering::Less => {
+                terms.push(x[i].clone());
+                i += 1;
+            }
+            Ordering::Greater => {
+                terms.push((y[j].0.clone(), signed(&y[j].1)));
+                j += 1;
+            }
+            Ordering::Equal => {
+                let sum = if negate {
+                    &x[i].1 - &y[j].1
+                } else {
+                    &x[i].1 + &y[j].1
+                };
+                if !sum.is_zero() {
+                    terms.push((x[i].0.clone(), sum));
+                }
+                i += 1;
+                j += 1;
+            }
+        }
+    }
+    terms.extend_from_slice(&x[i..]);
+    terms.extend(y[j..].iter().map(|(key, c)| (key.clone(), signed(c))));
+    Poly { terms }
+}
+
+/// `a·b` for rationals, without the two gcds of the general product when both are integers.
+fn mul_q(a: &Q, b: &Q) -> Q {
+    if a.denom().is_one() && b.denom().is_one() {
+        Q::from_integer(a.numer() * b.numer())
+    } else {
+        a * b
+    }
+}
 
 impl Add<&Poly> for &Poly {
     type Output = Poly;
     fn add(self, other: &Poly) -> Poly {
-        let mut sum = self.clone();
-        sum += other;
-        sum
+        merge(self, other, false)
     }
 }
 
 impl Sub<&Poly> for &Poly {
     type Output = Poly;
     fn sub(self, other: &Poly) -> Poly {
-        let mut difference = self.clone();
-        difference -= other;
-        difference
+        merge(self, other, true)
     }
 }
 
 impl Mul<&Poly> for &Poly {
     type Output = Poly;
     fn mul(self, other: &Poly) -> Poly {
-        let mut product = Poly::zero();
-        for (a, ca) in self.terms() {
-            for (b, cb) in other.terms() {
-                product.add_term(a.mul(b), ca * cb);
-            }
+        if self.is_zero() || other.is_zero() {
+            return Poly::zero();
         }
-        product
+        Poly::from_terms(
+            self.terms()
+                .flat_map(|(a, ca)| other.terms().map(move |(b, cb)| (a.mul(b), mul_q(ca, cb)))),
+        )
     }
 }
 
@@ -58,17 +102,13 @@ impl Neg for Poly {
 
 impl AddAssign<&Poly> for Poly {
     fn add_assign(&mut self, other: &Poly) {
-        for (m, c) in other.terms() {
-            self.add_term(m.clone(), c.clone());
-        }
+        *self = merge(self, other, false);
     }
 }
 
 impl SubAssign<&Poly> for Poly {
     fn sub_assign(&mut self, other: &Poly) {
-        for (m, c) in other.terms() {
-            self.add_term(m.clone(), -c);
-        }
+        *self = merge(self, other, true);
     }
 }
 

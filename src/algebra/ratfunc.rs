@@ -69,6 +69,9 @@ impl RatFunc {
         if num.is_zero() {
             return RatFunc::zero();
         }
+        if den.is_one() {
+            return RatFunc { num, den };
+        }
         let (content, den) = den.content_and_primitive();
         RatFunc {
             num: num.scale(&content.recip()),
@@ -132,6 +135,31 @@ impl RatFunc {
         } else {
             None
         }
+    }
+
+    /// `Some(self − other)` when that difference is a rational number, decided without
+    /// forming it in the common case: a numeric difference needs equal (canonical)
+    /// denominators, and over the denominator 1 it needs every term but the constant one to
+    /// agree.
+    pub fn difference_if_number(&self, other: &RatFunc) -> Option<Q> {
+        if self.den != other.den {
+            return None;
+        }
+        if !self.den.is_one() {
+            return (self - other).as_constant();
+        }
+        fn variable_terms(p: &Poly) -> impl Iterator<Item = (&super::Monomial, &Q)> {
+            p.terms().filter(|(m, _)| !m.is_one())
+        }
+        if !variable_terms(&self.num).eq(variable_terms(&other.num)) {
+            return None;
+        }
+        let constant_term = |p: &Poly| {
+            p.terms()
+                .find(|(m, _)| m.is_one())
+                .map_or_else(Q::zero, |(_, c)| c.clone())
+        };
+        Some(constant_term(&self.num) - constant_term(&other.num))
     }
 
     /// `Some(p)` when the denominator is 1.

@@ -25,6 +25,29 @@ impl Add<&RatFunc> for &RatFunc {
         // a/b + c/d = (a·(d/g) + c·(b/g)) / ((b/g)·d), and since a/b, c/d are reduced, only
         // gcd(numerator, g) can cancel, so the big gcd is never taken.
         let (a, b, c, d) = (self.numer(), self.denom(), other.numer(), other.denom());
+        // Fast paths with the same result as the general one below.
+        if self.is_zero() {
+            return other.clone();
+        }
+        if other.is_zero() {
+            return self.clone();
+        }
+        if b.is_one() && d.is_one() {
+            // A sum of polynomials is canonical over the denominator 1.
+            return RatFunc::from_poly(a + c);
+        }
+        if b == d {
+            // g = b: only gcd(a + c, b) can cancel.
+            let num = a + c;
+            let h = Poly::gcd(&num, b);
+            return canonical(exact(&num, &h), exact(b, &h));
+        }
+        if b.is_one() || d.is_one() {
+            // a + c/d = (a·d + c)/d with gcd(a·d + c, d) = gcd(c, d) = 1, and d is already
+            // primitive with a positive leading coefficient.
+            let (p, n, den) = if b.is_one() { (a, c, d) } else { (c, a, b) };
+            return canonical(p * den + n, den.clone());
+        }
         let g = Poly::gcd(b, d);
         let b_rest = exact(b, &g);
         let d_rest = exact(d, &g);
@@ -48,6 +71,13 @@ impl Mul<&RatFunc> for &RatFunc {
         // reduced, (a/b)(c/d) = ((a/g1)(c/g2)) / ((b/g2)(d/g1)) for g1 = gcd(a, d),
         // g2 = gcd(c, b) is reduced as well.
         let (a, b, c, d) = (self.numer(), self.denom(), other.numer(), other.denom());
+        if self.is_zero() || other.is_zero() {
+            return RatFunc::zero();
+        }
+        if b.is_one() && d.is_one() {
+            // A product of polynomials is canonical over the denominator 1.
+            return RatFunc::from_poly(a * c);
+        }
         let g1 = Poly::gcd(a, d);
         let g2 = Poly::gcd(c, b);
         canonical(
@@ -272,6 +302,60 @@ mod tests {
         acc *= c(2);
         acc *= &c(1);
         assert_eq!(acc, &a + &a);
+    }
+
+    #[test]
+    fn difference_if_number_agrees_with_subtraction() {
+        let (x, y) = (v("x"), v("y"));
+        let over = |a: &RatFunc, b: &RatFunc| a.checked_div(b).unwrap();
+        let values = [
+            c(3),
+            c(0),
+            RatFunc::constant(q(1, 2)),
+            &x + c(1),
+            &x + RatFunc::constant(q(5, 2)),
+            &x - c(1),
+            &(&x + &y) + c(4),
+            &x * &y,
+            &(&x * &y) + c(1),
+            over(&c(1), &(&x - c(1))),
+            over(&x, &(&x - c(1))),
+            over(&(&x + &y), &(&x - c(1))),
+            over(&c(1), &(&y + c(2))),
+        ];
+        for a in &values {
+            for b in &values {
+                let expected = (a - b).as_constant();
+                assert_eq!(a.difference_if_number(b), expected, "{a} − {b}");
+            }
+        }
+    }
+
+    #[test]
+    fn sums_and_products_take_the_short_paths_to_the_same_forms() {
+        // Each short path (zero, both denominators 1, equal denominators, one denominator 1)
+        // against the value it must equal, built another way.
+        let (x, y) = (v("x"), v("y"));
+        let over = |a: &RatFunc, b: &RatFunc| a.checked_div(b).unwrap();
+        let d = &x - c(1);
+        assert_eq!(&RatFunc::zero() + &over(&y, &d), over(&y, &d));
+        assert_eq!(&over(&y, &d) + &RatFunc::zero(), over(&y, &d));
+        // x/(x − 1) + (−1)/(x − 1) = 1: the common factor cancels.
+        assert_eq!(&over(&x, &d) + &over(&c(-1), &d), c(1));
+        // y/(x − 1) + 2y/(x − 1) = 3y/(x − 1)
+        assert_eq!(
+            &over(&y, &d) + &over(&(c(2) * &y), &d),
+            over(&(c(3) * &y), &d)
+        );
+        // y + 1/(x − 1) = (xy − y + 1)/(x − 1)
+        let expected = frac(
+            Poly::var("x") * Poly::var("y") - Poly::var("y") + Poly::one(),
+            Poly::var("x") - Poly::one(),
+        );
+        assert_eq!(&y + &over(&c(1), &d), expected);
+        assert_eq!(&over(&c(1), &d) + &y, expected);
+        assert_eq!(&(&x + &y) * &(&x - &y), &(&x * &x) - &(&y * &y));
+        assert_eq!(&RatFunc::zero() * &over(&y, &d), RatFunc::zero());
     }
 
     #[test]

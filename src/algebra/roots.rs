@@ -8,7 +8,7 @@
 //! multiple of `1/L` inside, if any, is checked exactly.
 
 use num_bigint::BigInt;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use super::dense::{derivative, divide, evaluate, gcd, integer_primitive, trimmed};
 use super::rational::Q;
@@ -22,11 +22,14 @@ pub fn rational_roots(coeffs: &[Q]) -> (Vec<(Q, u32)>, Vec<Q>) {
     if poly.len() <= 1 {
         return (Vec::new(), poly);
     }
-    // p / gcd(p, p') keeps each distinct root once (characteristic 0; Geddes, Czapor,
-    // Labahn, "Algorithms for Computer Algebra", ch. 8).
-    let square_free = integer_primitive(&divide(&poly, &gcd(&poly, &derivative(&poly))).0);
-    let mut candidates = Vec::new();
-    search_roots(&square_free, &mut candidates);
+    let candidates = divisor_search(&poly).unwrap_or_else(|| {
+        // p / gcd(p, p') keeps each distinct root once (characteristic 0; Geddes, Czapor,
+        // Labahn, "Algorithms for Computer Algebra", ch. 8).
+        let square_free = integer_primitive(&divide(&poly, &gcd(&poly, &derivative(&poly))).0);
+        let mut found = Vec::new();
+        search_roots(&square_free, &mut found);
+        found
+    });
 
     let mut cofactor = poly;
     let mut roots = Vec::with_capacity(candidates.len());
@@ -39,6 +42,83 @@ pub fn rational_roots(coeffs: &[Q]) -> (Vec<(Q, u32)>, Vec<Q>) {
         roots.push((root, multiplicity));
     }
     (roots, cofactor)
+}
+
+/// The divisor search below runs only when the end coefficients are at most this big...
+const SMALL_END_COEFFICIENT: u64 = 1 << 20;
+/// ...and the candidates u/v number at most this many; otherwise the Sturm search runs.
+const MAX_DIVISOR_CANDIDATES: usize = 512;
+
+/// The distinct rational roots, ascending, by the rational root theorem when that is cheap:
+/// with integer coefficients a_j..a_n (a_j the lowest non-zero one), a non-zero root u/v in
+/// lowest terms has u | a_j and v | a_n, and x = 0 is a root exactly when j > 0. Each
+/// candidate is checked exactly in integers: Σ a_i u^(i−j) v^(n−i) = 0. `None` when the end
+/// coefficients are large or have many divisors (the Sturm search then decides); the answer
+/// is the same set either way.
+fn divisor_search(poly: &[Q]) -> Option<Vec<Q>> {
+    let ints: Vec<BigInt> = integer_primitive(poly)
+        .iter()
+        .map(|c| c.to_integer())
+        .collect();
+    let low = ints.iter().position(|c| !c.is_zero())?;
+    let reduced = &ints[low..];
+    let small = |c: &BigInt| {
+        c.magnitude()
+            .to_u64()
+            .filter(|&m| m <= SMALL_END_COEFFICIENT)
+    };
+    let trailing = small(&reduced[0])?;
+    let lead = small(reduced.last().expect("non-zero"))?;
+    let (numerators, denominators) = (divisors(trailing), divisors(lead));
+    if 2 * numerators.len() * denominators.len() > MAX_DIVISOR_CANDIDATES {
+        return None;
+    }
+    let mut roots = Vec::new();
+    if low > 0 {
+        roots.push(Q::zero());
+    }
+    let degree = reduced.len() - 1;
+    for &u in &numerators {
+        for &v in &denominators {
+            if num_integer::gcd(u, v) != 1 {
+                continue;
+            }
+            for sign in [1i64, -1] {
+                let (u, v) = (BigInt::from(u) * sign, BigInt::from(v));
+                // Σ a_i u^i v^(d−i) by Horner's scheme from the top, the powers of v rising
+                // as the powers of u fall.
+                let mut value = reduced[degree].clone();
+                let mut v_power = BigInt::one();
+                for a in reduced[..degree].iter().rev() {
+                    v_power *= &v;
+                    value = value * &u + a * &v_power;
+                }
+                if value.is_zero() {
+                    roots.push(Q::new(u, v));
+                }
+            }
+        }
+    }
+    roots.sort();
+    Some(roots)
+}
+
+/// The positive divisors of `n > 0`, by trial division up to √n.
+fn divisors(n: u64) -> Vec<u64> {
+    let mut small = Vec::new();
+    let mut large = Vec::new();
+    let mut d = 1;
+    while d * d <= n {
+        if n % d == 0 {
+            small.push(d);
+            if d * d != n {
+                large.push(n / d);
+            }
+        }
+        d += 1;
+    }
+    small.extend(large.into_iter().rev());
+    small
 }
 
 /// Finds the rational roots of a square-free primitive integer polynomial, ascending.
@@ -169,6 +249,57 @@ mod tests {
             }
         }
         p
+    }
+
+    /// The Sturm search alone, as `rational_roots` ran it before the divisor search.
+    fn sturm_roots(poly: &[Q]) -> Vec<Q> {
+        let square_free = integer_primitive(&divide(poly, &gcd(poly, &derivative(poly))).0);
+        let mut found = Vec::new();
+        search_roots(&square_free, &mut found);
+        found
+    }
+
+    #[test]
+    fn divisor_search_finds_what_the_sturm_search_finds() {
+        // Products of linear factors (repeated, zero, fractional roots) with irreducible
+        // quadratics and constants, against the Sturm search.
+        let linear: Vec<Vec<Q>> = [(0, 1), (1, 1), (-2, 1), (1, 3), (-5, 2), (7, 4), (1, 2)]
+            .iter()
+            .map(|&(n, d)| vec![q(-n, d), q(1, 1)])
+            .collect();
+        let others = [
+            ints(&[1, 0, 1]),
+            ints(&[-2, 0, 1]),
+            ints(&[3]),
+            ints(&[1, 1, 1]),
+        ];
+        let multiply = |a: &[Q], b: &[Q]| {
+            let mut out = vec![Q::zero(); a.len() + b.len() - 1];
+            for (i, x) in a.iter().enumerate() {
+                for (j, y) in b.iter().enumerate() {
+                    out[i + j] += x * y;
+                }
+            }
+            out
+        };
+        let mut checked = 0;
+        for (i, a) in linear.iter().enumerate() {
+            for (j, b) in linear.iter().enumerate().skip(i) {
+                for (l, other) in others.iter().enumerate() {
+                    let mut p = multiply(&multiply(a, b), other);
+                    if (i + j + l) % 3 == 0 {
+                        p = multiply(&p, &linear[(i + l) % linear.len()]);
+                    }
+                    let p: Vec<Q> = p.iter().map(|c| c * q(3, 7)).collect();
+                    let found = divisor_search(&p).expect("small coefficients");
+                    assert_eq!(found, sturm_roots(&trimmed(p.clone())), "{p:?}");
+                    checked += 1;
+                }
+            }
+        }
+        assert!(checked > 100);
+        // Large end coefficients leave the decision to the Sturm search.
+        assert_eq!(divisor_search(&ints(&[1 << 40, 1])), None);
     }
 
     #[test]

@@ -46,10 +46,15 @@ pub fn solve_report(
     layout: SolveLayout,
 ) -> String {
     let first = &solved.pieces[0].problem;
-    let analysis_text_part = report.analysis.map(analysis_text).unwrap_or_default()
-        + &probabilities_text(report.probabilities);
-    let analysis_latex_part = report.analysis.map(analysis_latex).unwrap_or_default()
-        + &probabilities_latex(report.probabilities);
+    // Only the asked-for format is rendered.
+    let analysis_text_part = || {
+        report.analysis.map(analysis_text).unwrap_or_default()
+            + &probabilities_text(report.probabilities)
+    };
+    let analysis_latex_part = || {
+        report.analysis.map(analysis_latex).unwrap_or_default()
+            + &probabilities_latex(report.probabilities)
+    };
     let wrap = |body: String| {
         if layout.standalone {
             derivation::standalone(first, &body)
@@ -59,8 +64,8 @@ pub fn solve_report(
     };
     if model.is_piecewise() {
         return match format {
-            SolveFormat::Text => piecewise_text(model, solved) + &analysis_text_part,
-            SolveFormat::Latex => wrap(piecewise_latex(model, solved) + &analysis_latex_part),
+            SolveFormat::Text => piecewise_text(model, solved) + &analysis_text_part(),
+            SolveFormat::Latex => wrap(piecewise_latex(model, solved) + &analysis_latex_part()),
             SolveFormat::Json => {
                 let mut json = piecewise_json(model, solved);
                 if let (Some(analysis), serde_json::Value::Object(fields)) =
@@ -81,9 +86,9 @@ pub fn solve_report(
             derivation_text(model)
                 + "\n"
                 + &solve_text_with(problem, solution, layout)
-                + &analysis_text_part
+                + &analysis_text_part()
         }
-        SolveFormat::Text => solve_text_with(problem, solution, layout) + &analysis_text_part,
+        SolveFormat::Text => solve_text_with(problem, solution, layout) + &analysis_text_part(),
         SolveFormat::Latex => {
             let inner = SolveLayout {
                 standalone: false,
@@ -93,7 +98,7 @@ pub fn solve_report(
             if shown {
                 body = derivation_latex(model) + &body;
             }
-            wrap(body + &analysis_latex_part)
+            wrap(body + &analysis_latex_part())
         }
         SolveFormat::Json => {
             let mut json = solve_json(problem, solution);

@@ -9,7 +9,8 @@ use crate::closed_form::{Affine, Factor, Product};
 
 use super::measure::affine_size;
 use super::rules::{
-    affine_minus, affine_plus, constant_value, gamma_pairs, gammas, integer_value, rewrite, Context,
+    affine_minus, constant_value, gamma_pairs, gammas, integer_difference, integer_value, rewrite,
+    Context,
 };
 
 /// Constant shifts up to this are folded by the recurrence; beyond, the Gammas stay.
@@ -26,7 +27,7 @@ pub fn gamma_constant_shift(p: &Product, _: &Context) -> Vec<Product> {
         if top.depends_on_k() || bottom.depends_on_k() {
             continue;
         }
-        let Some(shift) = integer_value(&affine_minus(top, bottom)) else {
+        let Some(shift) = integer_difference(top, bottom) else {
             continue;
         };
         let n = shift.abs().to_u32().unwrap_or(u32::MAX);
@@ -89,8 +90,19 @@ pub fn gamma_quotient_to_pochhammer(p: &Product, context: &Context) -> Vec<Produ
         if !top.depends_on_k() && !bottom.depends_on_k() {
             continue;
         }
-        let up = affine_minus(top, bottom);
-        let down = affine_minus(bottom, top);
+        // Both counts below need a numeric constant, the case of few pairs: decide that
+        // before forming the differences.
+        let Some(difference) = top.constant.difference_if_number(&bottom.constant) else {
+            continue;
+        };
+        let up = Affine {
+            k_coeff: top.k_coeff - bottom.k_coeff,
+            constant: RatFunc::constant(difference.clone()),
+        };
+        let down = Affine {
+            k_coeff: bottom.k_coeff - top.k_coeff,
+            constant: RatFunc::constant(-difference),
+        };
         let rising = if pochhammer_count(bottom, &up, context) {
             Factor::Rising {
                 base: bottom.clone(),
@@ -154,20 +166,29 @@ pub fn pochhammer_to_linear(p: &Product, _: &Context) -> Vec<Product> {
 pub fn binomial_from_gammas(p: &Product, _: &Context) -> Vec<Product> {
     let all = gammas(p);
     let mut out = Vec::new();
+    let one = RatFunc::one();
+    // left + right for each pair of denominator Gammas, formed once and only for pairs whose
+    // k coefficients can match a numerator's.
+    let mut pair_sums: Vec<Vec<Option<RatFunc>>> = vec![vec![None; all.len()]; all.len()];
     for &(i, top, ei) in &all {
         if ei <= 0 {
             continue;
         }
+        let top_plus_one = &top.constant + &one;
         for (position, &(j, left, ej)) in all.iter().enumerate() {
-            for &(l, right, el) in &all[position + 1..] {
+            for (offset, &(l, right, el)) in all[position + 1..].iter().enumerate() {
                 if ej >= 0 || el >= 0 {
                     continue;
                 }
-                let one = Affine::constant(RatFunc::one());
-                if affine_plus(left, right) != affine_plus(top, &one) {
+                if left.k_coeff + right.k_coeff != top.k_coeff {
                     continue;
                 }
                 if !(top.depends_on_k() || left.depends_on_k() || right.depends_on_k()) {
+                    continue;
+                }
+                let sum = pair_sums[position][position + 1 + offset]
+                    .get_or_insert_with(|| &left.constant + &right.constant);
+                if *sum != top_plus_one {
                     continue;
                 }
                 let m = ei.min(-ej).min(-el);

@@ -108,14 +108,6 @@ pub(crate) fn affine_minus(a: &Affine, b: &Affine) -> Affine {
     }
 }
 
-/// `a + b`.
-pub(crate) fn affine_plus(a: &Affine, b: &Affine) -> Affine {
-    Affine {
-        k_coeff: a.k_coeff + b.k_coeff,
-        constant: &a.constant + &b.constant,
-    }
-}
-
 /// The value of a `k`-free argument when it is a rational number.
 pub(crate) fn constant_value(a: &Affine) -> Option<Q> {
     if a.depends_on_k() {
@@ -127,6 +119,18 @@ pub(crate) fn constant_value(a: &Affine) -> Option<Q> {
 /// The value of a `k`-free argument when it is an integer.
 pub(crate) fn integer_value(a: &Affine) -> Option<BigInt> {
     constant_value(a)
+        .filter(Q::is_integer)
+        .map(|q| q.to_integer())
+}
+
+/// `a − b` when it is an integer (equal `k` coefficients, constants differing by an integer),
+/// without forming the difference otherwise.
+pub(crate) fn integer_difference(a: &Affine, b: &Affine) -> Option<BigInt> {
+    if a.k_coeff != b.k_coeff {
+        return None;
+    }
+    a.constant
+        .difference_if_number(&b.constant)
         .filter(Q::is_integer)
         .map(|q| q.to_integer())
 }

@@ -3,6 +3,7 @@
 //! factors in a fixed reading order. None of this changes a value; it is bookkeeping, so it is
 //! not shown as a derivation step of its own.
 
+#[cfg(test)]
 use std::cmp::Ordering;
 
 use crate::algebra::{RatFunc, Q};
@@ -12,7 +13,14 @@ use crate::closed_form::{Affine, Factor, Product};
 /// are returned unchanged).
 pub fn with_exponent(f: &Factor, e: i32) -> Factor {
     let mut out = f.clone();
-    match &mut out {
+    set_exponent(&mut out, e);
+    out
+}
+
+/// Sets the exponent of `f` in place (Power factors carry theirs in the exponent argument and
+/// are left unchanged).
+fn set_exponent(f: &mut Factor, e: i32) {
+    match f {
         Factor::Gamma { exponent, .. }
         | Factor::Linear { exponent, .. }
         | Factor::Rising { exponent, .. }
@@ -22,7 +30,36 @@ pub fn with_exponent(f: &Factor, e: i32) -> Factor {
         Factor::SqrtPi { half_exponent } => *half_exponent = e,
         Factor::Power { .. } => {}
     }
-    out
+}
+
+/// Whether `a` and `b` differ at most in their exponents: `with_exponent(a, 0) ==
+/// with_exponent(b, 0)` without the two copies.
+fn alike(a: &Factor, b: &Factor) -> bool {
+    match (a, b) {
+        (Factor::Gamma { arg: x, .. }, Factor::Gamma { arg: y, .. })
+        | (Factor::Linear { arg: x, .. }, Factor::Linear { arg: y, .. })
+        | (Factor::Factorial { arg: x, .. }, Factor::Factorial { arg: y, .. }) => x == y,
+        (
+            Factor::Rising {
+                base: x, count: m, ..
+            },
+            Factor::Rising {
+                base: y, count: n, ..
+            },
+        ) => x == y && m == n,
+        (Factor::Beta { a: x, b: m, .. }, Factor::Beta { a: y, b: n, .. }) => x == y && m == n,
+        (
+            Factor::Binomial {
+                top: x, bottom: m, ..
+            },
+            Factor::Binomial {
+                top: y, bottom: n, ..
+            },
+        ) => x == y && m == n,
+        (Factor::SqrtPi { .. }, Factor::SqrtPi { .. }) => true,
+        (Factor::Power { .. }, Factor::Power { .. }) => a == b,
+        _ => false,
+    }
 }
 
 /// Folds the factors that do not depend on `k` and have an exact value into the coefficient.
@@ -73,9 +110,9 @@ fn merge(p: &mut Product) {
             merged.push(f);
             continue;
         }
-        let key = with_exponent(&f, 0);
-        if let Some(existing) = merged.iter_mut().find(|g| with_exponent(g, 0) == key) {
-            *existing = with_exponent(existing, existing.exponent() + f.exponent());
+        if let Some(existing) = merged.iter_mut().find(|g| alike(g, &f)) {
+            let sum = existing.exponent() + f.exponent();
+            set_exponent(existing, sum);
             continue;
         }
         merged.push(f);
@@ -118,6 +155,7 @@ fn first_argument(f: &Factor) -> Option<&Affine> {
     }
 }
 
+#[cfg(test)]
 fn reading_order(a: &Factor, b: &Factor) -> Ordering {
     let rank = kind_rank(a).cmp(&kind_rank(b));
     let k_first = b.depends_on_k().cmp(&a.depends_on_k());
@@ -138,13 +176,38 @@ fn reading_order(a: &Factor, b: &Factor) -> Ordering {
     })
 }
 
+/// The key of one factor in the reading order (kind, `k`-dependent first, the argument's
+/// constant by value when it is a number, else by its text, then the exponent), computed once
+/// per factor instead of once per comparison. Comparing keys gives `reading_order` (checked
+/// in the tests): the text of a numeric constant only breaks ties between equal numbers,
+/// whose texts are equal, so it is left out.
+type ReadingKey = (u8, bool, Option<(bool, Option<Q>)>, Option<String>, i32);
+
+fn reading_key(f: &Factor) -> ReadingKey {
+    let argument = first_argument(f);
+    let value = argument.map(|x| {
+        let number = x.constant.as_constant();
+        (number.is_none(), number)
+    });
+    let symbolic =
+        argument.and_then(|x| (x.constant.as_constant().is_none()).then(|| x.constant.to_string()));
+    (
+        kind_rank(f),
+        !f.depends_on_k(),
+        value,
+        symbolic,
+        f.exponent(),
+    )
+}
+
 /// The canonical shape of `p`.
 pub fn tidy(mut p: Product) -> Product {
     fold_constants(&mut p);
     merge(&mut p);
     // Merging can produce new constants (a gathered power with base 1 is dropped above).
     fold_constants(&mut p);
-    p.factors.sort_by(reading_order);
+    // Stable, like `sort_by(reading_order)`.
+    p.factors.sort_by_cached_key(reading_key);
     p
 }
 
@@ -226,6 +289,69 @@ mod tests {
         let t = tidy(p);
         assert!(t.factors.is_empty());
         assert_eq!(t.coefficient, RatFunc::constant(Q::new(9.into(), 2.into())));
+    }
+
+    #[test]
+    fn cached_reading_keys_order_like_the_comparison() {
+        // Every kind, numeric and symbolic constants, equal arguments with different
+        // exponents: sorting by the cached key must give the comparison's order.
+        let alpha = RatFunc::var("alpha");
+        let half = RatFunc::constant(Q::new(1.into(), 2.into()));
+        let args = [
+            k_plus(0),
+            k_plus(-2),
+            Affine::k_plus(half.clone()),
+            Affine::k_plus(alpha.clone()),
+            Affine::k_plus(&alpha + &RatFunc::one()),
+            Affine::constant(alpha.clone()),
+            Affine::constant(half.clone()),
+            Affine::c_minus_k(alpha.clone()),
+        ];
+        let mut factors = vec![Factor::SqrtPi { half_exponent: -1 }];
+        for (i, arg) in args.iter().enumerate() {
+            let e = if i % 2 == 0 { 1 } else { -2 };
+            factors.push(Factor::Gamma {
+                arg: arg.clone(),
+                exponent: e,
+            });
+            factors.push(Factor::Gamma {
+                arg: arg.clone(),
+                exponent: -e,
+            });
+            factors.push(Factor::Linear {
+                arg: arg.clone(),
+                exponent: e,
+            });
+            factors.push(Factor::Factorial {
+                arg: arg.clone(),
+                exponent: e,
+            });
+            factors.push(Factor::Beta {
+                a: arg.clone(),
+                b: Affine::constant(half.clone()),
+                exponent: e,
+            });
+            factors.push(Factor::Rising {
+                base: arg.clone(),
+                count: k_plus(1),
+                exponent: e,
+            });
+            factors.push(Factor::Binomial {
+                top: arg.clone(),
+                bottom: k_plus(0),
+                exponent: e,
+            });
+            factors.push(Factor::Power {
+                base: alpha.clone(),
+                exponent: arg.clone(),
+            });
+        }
+        factors.reverse();
+        let mut by_comparison = factors.clone();
+        by_comparison.sort_by(reading_order);
+        let mut by_key = factors;
+        by_key.sort_by_cached_key(reading_key);
+        assert_eq!(by_key, by_comparison);
     }
 
     #[test]
