@@ -13,7 +13,7 @@ use telescope::piecewise::build_piecewise_table;
 use telescope::probability::{analyse_model, normalized_piecewise_table};
 use telescope::render;
 use telescope::session::{self, Error};
-use telescope::table::{build_normalized_table, build_table, TableRequest};
+use telescope::table::{build_normalized_table, build_table, build_table_into, TableRequest};
 
 #[derive(Parser)]
 #[command(
@@ -505,6 +505,14 @@ fn run(cli: Cli) -> Result<String, Error> {
                     }
                     TableFormat::Svg => html_report::table_svg(&solved, &table.table)?,
                 });
+            }
+            if matches!(format, TableFormat::Csv) && !model.is_piecewise() {
+                // Rows are written as they are made: a long table is never held in memory.
+                let mut csv = render::CsvRows::new(request.digits);
+                let piece = &solved.pieces[0];
+                build_table_into(&piece.problem, &piece.solution, &request, &mut csv)
+                    .map_err(to_error)?;
+                return Ok(csv.finish());
             }
             let built = if model.is_piecewise() {
                 build_piecewise_table(&solved, &request, model.pieces[0].span.clone())

@@ -79,6 +79,11 @@ pub trait DirectSource {
     fn log(&self, prec: u32) -> LogReal;
     /// The proven bound on the current value's relative error; None when it is exact.
     fn error_bound(&self) -> Option<Float>;
+    /// Whether `error_bound` never decreases from one step to the next, so that the bound at
+    /// the last row is the largest (the table then asks for it once instead of on every row).
+    fn bound_only_grows(&self) -> bool {
+        false
+    }
 }
 
 impl DirectSource for RunningProduct {
@@ -113,6 +118,29 @@ impl DirectSource for RunningProduct {
 
     fn error_bound(&self) -> Option<Float> {
         RunningProduct::error_bound(self)
+    }
+
+    /// The bound counts the roundings made so far (Higham's γ_n), and every step adds some.
+    fn bound_only_grows(&self) -> bool {
+        true
+    }
+}
+
+/// Where a table's rows go as they are made: kept in memory (`Vec<Row>`), or written out at
+/// once (`render::CsvRows`), so that a long table need not hold every row.
+pub trait RowSink {
+    /// The number of rows about to come (for reserving space).
+    fn expect(&mut self, _rows: u64) {}
+    fn take(&mut self, row: Row);
+}
+
+impl RowSink for Vec<Row> {
+    fn expect(&mut self, rows: u64) {
+        self.reserve(rows.min(MAX_ROWS) as usize);
+    }
+
+    fn take(&mut self, row: Row) {
+        self.push(row);
     }
 }
 
@@ -180,9 +208,9 @@ pub(crate) fn direct_error(e: DirectError, here: &Span) -> Diagnostic {
     Diagnostic::new(message, here.clone())
 }
 
-/// The rows of a table, whatever the direct product and the closed form are.
+/// What a table's rows showed, whatever the direct product and the closed form are (the rows
+/// themselves went to a `RowSink`).
 pub(crate) struct FilledRows {
-    pub rows: Vec<Row>,
     pub checked_rows: Vec<BigInt>,
     pub max_rel_diff: String,
     /// The largest relative error bound of a direct value (0 when exact).
@@ -190,7 +218,7 @@ pub(crate) struct FilledRows {
 }
 
 /// Walks `source` over the requested rows, evaluating `closed` at the sampled offsets (sorted)
-/// and comparing it with the direct value there.
+/// and comparing it with the direct value there; every row goes to `sink`.
 pub(crate) fn fill_rows(
     source: &mut impl DirectSource,
     request: &TableRequest,
@@ -198,12 +226,13 @@ pub(crate) fn fill_rows(
     sample: &[u64],
     here: &Span,
     mut closed: impl FnMut(&BigInt) -> Result<LogReal, String>,
+    sink: &mut impl RowSink,
 ) -> Result<FilledRows, Diagnostic> {
     source
         .advance_to(&request.from)
         .map_err(|e| direct_error(e, here))?;
+    sink.expect(rows);
     let mut out = FilledRows {
-        rows: Vec::with_capacity(rows as usize),
         checked_rows: Vec::new(),
         max_rel_diff: String::new(),
         worst_bound: Float::new(64),
@@ -212,17 +241,21 @@ pub(crate) fn fill_rows(
     let mut next_sample = 0usize;
     let expected = crate::budget::Estimate::table(rows, request.digits, sample.len() as u64, 2);
     let progress = crate::budget::Progress::new("table rows", rows, expected.seconds);
+    let bound_only_grows = source.bound_only_grows();
+    let mut k = request.from.clone();
     for offset in 0..rows {
         if offset % 1024 == 1023 {
             progress.inc(1024);
         }
         if offset > 0 {
             source.step().map_err(|e| direct_error(e, here))?;
+            k += 1u32;
         }
-        let k = &request.from + BigInt::from(offset);
-        if let Some(bound) = source.error_bound() {
-            if bound > out.worst_bound {
-                out.worst_bound = bound;
+        if !bound_only_grows || offset + 1 == rows {
+            if let Some(bound) = source.error_bound() {
+                if bound > out.worst_bound {
+                    out.worst_bound = bound;
+                }
             }
         }
         let mut row = Row {
@@ -246,9 +279,9 @@ pub(crate) fn fill_rows(
             }
             row.closed = Some(value.to_decimal(request.digits));
             row.rel_diff = Some(decimal::short(&rel));
-            out.checked_rows.push(k);
+            out.checked_rows.push(k.clone());
         }
-        out.rows.push(row);
+        sink.take(row);
     }
     out.max_rel_diff = decimal::short(&max_rel);
     Ok(out)
@@ -259,6 +292,20 @@ pub fn build_table(
     problem: &Problem,
     solution: &Solution,
     request: &TableRequest,
+) -> Result<Table, Diagnostic> {
+    let mut rows = Vec::new();
+    let mut table = build_table_into(problem, solution, request, &mut rows)?;
+    table.rows = rows;
+    Ok(table)
+}
+
+/// `build_table` with the rows sent to `sink` as they are made; the returned table has no
+/// rows, only what they showed (checked rows, largest difference, the direct method's bound).
+pub fn build_table_into(
+    problem: &Problem,
+    solution: &Solution,
+    request: &TableRequest,
+    sink: &mut impl RowSink,
 ) -> Result<Table, Diagnostic> {
     let here = problem.rule_span.clone();
     let values = &solution.values;
@@ -281,16 +328,24 @@ pub fn build_table(
         steps,
     );
     let sample = sample_offsets(rows, request.check_all);
-    let filled = fill_rows(&mut run, request, rows, &sample, &here, |k| {
-        evaluate_closed_form(
-            &solution.closed_form,
-            k,
-            values,
-            &base_value,
-            request.digits,
-        )
-        .map_err(|e| format!("{e:?}"))
-    })?;
+    let filled = fill_rows(
+        &mut run,
+        request,
+        rows,
+        &sample,
+        &here,
+        |k| {
+            evaluate_closed_form(
+                &solution.closed_form,
+                k,
+                values,
+                &base_value,
+                request.digits,
+            )
+            .map_err(|e| format!("{e:?}"))
+        },
+        sink,
+    )?;
     let method = match run.value() {
         DirectValue::Approx { mantissa, .. } => DirectMethod::Mpfr {
             bits: mantissa.prec(),
@@ -301,7 +356,7 @@ pub fn build_table(
         digits: request.digits,
         params: values.clone(),
         base_value: request.base_value.clone(),
-        rows: filled.rows,
+        rows: Vec::new(),
         checked_rows: filled.checked_rows,
         max_rel_diff: filled.max_rel_diff,
         method,

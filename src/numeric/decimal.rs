@@ -4,6 +4,8 @@
 //! value whose error bound the caller has made small compared with the last digit, so the printed
 //! value is within one unit of the last place of the true one (a faithful rounding).
 
+use std::fmt::Write;
+
 use rug::float::Round;
 use rug::ops::Pow;
 use rug::{Float, Integer, Rational};
@@ -115,7 +117,25 @@ pub fn float_to_decimal(x: &Float, digits: u32) -> String {
     }
     let (negative, mantissa, exp) =
         x.to_sign_string_exp_round(10, Some(digits.max(1) as usize), Round::Nearest);
-    layout(negative, &mantissa, exp.unwrap_or(0) as i64)
+    layout_owned(negative, mantissa, exp.unwrap_or(0) as i64)
+}
+
+/// `layout` reusing the digit string where the result is in scientific notation (the common
+/// case in long tables): the point and the exponent are put into it without a new string.
+fn layout_owned(negative: bool, mut digits: String, exp10: i64) -> String {
+    let e = exp10 - 1;
+    if e > -5 && e < 7 {
+        return layout(negative, &digits, exp10);
+    }
+    if digits.len() > 1 {
+        digits.insert(1, '.');
+    }
+    if negative {
+        digits.insert(0, '-');
+    }
+    // Writing into a String cannot fail.
+    let _ = write!(digits, "e{e}");
+    digits
 }
 
 /// A short form (3 significant digits) for error figures such as relative differences.
@@ -126,6 +146,21 @@ pub fn short(x: &Float) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn owned_layout_is_the_layout() {
+        for digits in ["1", "12", "12345678901234567890"] {
+            for exp10 in -12..12 {
+                for negative in [false, true] {
+                    assert_eq!(
+                        layout_owned(negative, digits.to_string(), exp10),
+                        layout(negative, digits, exp10),
+                        "{negative} {digits} {exp10}"
+                    );
+                }
+            }
+        }
+    }
 
     #[test]
     fn exact_rounding_of_rationals() {

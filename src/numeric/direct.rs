@@ -109,6 +109,8 @@ struct ApproxState {
     exp2: i64,
     /// c / Π q_i^e_i: the constant after moving every offset's denominator q_i into it.
     scaled_constant: Float,
+    /// Whether `scaled_constant` is exactly 1.
+    constant_is_one: bool,
     /// Current integer q_i·(±k) + p_i for each factor.
     numerators: Vec<Integer>,
     steps: u64,
@@ -169,6 +171,7 @@ impl RunningProduct {
             State::Approx(ApproxState {
                 value: Float::with_val(prec, &base_value),
                 exp2: 0,
+                constant_is_one: scaled == 1,
                 scaled_constant: Float::with_val(prec, &scaled),
                 numerators,
                 steps: 0,
@@ -189,9 +192,9 @@ impl RunningProduct {
 
     /// Moves from a(k) to a(k+1).
     pub fn step(&mut self) -> Result<(), DirectError> {
-        let next = Integer::from(&self.k + 1);
         match &mut self.state {
             State::Exact(value) => {
+                let next = Integer::from(&self.k + 1);
                 if *value != 0 {
                     let r = self.ratio.at(&next)?;
                     *value *= r;
@@ -215,7 +218,7 @@ impl RunningProduct {
                     if *numerator == 0 {
                         if factor.exponent < 0 {
                             return Err(DirectError::ZeroDenominator {
-                                k: next.clone(),
+                                k: Integer::from(&self.k + 1),
                                 factor: index,
                             });
                         }
@@ -223,13 +226,21 @@ impl RunningProduct {
                     }
                 }
                 if !state.value.is_zero() {
-                    state.value *= &state.scaled_constant;
+                    // Multiplying by exactly 1 is exact: skipping it changes neither the value
+                    // nor the bound (which still counts that rounding).
+                    if !state.constant_is_one {
+                        state.value *= &state.scaled_constant;
+                    }
                     for (numerator, factor) in state.numerators.iter().zip(&self.ratio.factors) {
+                        // A machine-word integer goes to MPFR's _si routines, a larger one to
+                        // the _z routines; both round correctly, so the value is the same.
+                        let small = numerator.to_i64();
                         for _ in 0..factor.exponent.unsigned_abs() {
-                            if factor.exponent > 0 {
-                                state.value *= numerator;
-                            } else {
-                                state.value /= numerator;
+                            match (factor.exponent > 0, small) {
+                                (true, Some(n)) => state.value *= n,
+                                (true, None) => state.value *= numerator,
+                                (false, Some(n)) => state.value /= n,
+                                (false, None) => state.value /= numerator,
                             }
                         }
                     }
@@ -243,7 +254,7 @@ impl RunningProduct {
                 state.steps += 1;
             }
         }
-        self.k = next;
+        self.k += 1;
         Ok(())
     }
 

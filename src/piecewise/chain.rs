@@ -224,14 +224,21 @@ pub fn build_piecewise_table(
     }
     sample.sort_unstable();
     sample.dedup();
-    let filled = fill_rows(&mut chain, request, rows, &sample, &here, |k| {
-        closed.value(k).map_err(|e| format!("{e:?}"))
-    })?;
+    let mut table_rows = Vec::new();
+    let filled = fill_rows(
+        &mut chain,
+        request,
+        rows,
+        &sample,
+        &here,
+        |k| closed.value(k).map_err(|e| format!("{e:?}")),
+        &mut table_rows,
+    )?;
     Ok(Table {
         digits: request.digits,
         params: values.clone(),
         base_value: request.base_value.clone(),
-        rows: filled.rows,
+        rows: table_rows,
         checked_rows: filled.checked_rows,
         max_rel_diff: filled.max_rel_diff,
         method: if exact {

@@ -37,7 +37,7 @@ pub use report::{solve_report, SolveFormat, SolveReport};
 pub use solve_output::{
     solve_json, solve_latex, solve_latex_with, solve_text, solve_text_with, SolveLayout,
 };
-pub use table_output::{table_csv, table_json, table_text};
+pub use table_output::{table_csv, table_json, table_text, CsvRows};
 
 use serde_json::{json, Value};
 

@@ -1,8 +1,10 @@
 //! `telescope table` in text, CSV and JSON.
 
+use std::fmt::Write;
+
 use serde_json::{json, Value};
 
-use crate::table::{DirectMethod, Table};
+use crate::table::{DirectMethod, Row, RowSink, Table};
 
 fn method(t: &Table) -> String {
     match t.method {
@@ -76,18 +78,62 @@ pub fn table_text(t: &Table) -> String {
 
 /// Comma-separated values with a header row; unchecked cells are empty.
 pub fn table_csv(t: &Table) -> String {
-    let mut out = String::from("k,direct,closed,rel_diff\n");
-    for r in &t.rows {
-        out += &format!(
-            "{},{},{},{}\n",
-            r.k,
-            r.direct,
-            r.closed.as_deref().unwrap_or(""),
-            r.rel_diff.as_deref().unwrap_or("")
-        );
+    let mut csv = CsvRows::new(t.digits);
+    csv.expect(t.rows.len() as u64);
+    for row in &t.rows {
+        csv.write(row);
     }
-    out
+    csv.finish()
 }
+
+/// A CSV table written row by row as the rows are made (`build_table_into`), so that the rows
+/// are never all held at once.
+pub struct CsvRows {
+    out: String,
+    digits: u32,
+}
+
+impl CsvRows {
+    /// `digits`: the table's significant digits (to guess the length of a row).
+    pub fn new(digits: u32) -> Self {
+        CsvRows {
+            out: String::from("k,direct,closed,rel_diff\n"),
+            digits,
+        }
+    }
+
+    fn write(&mut self, r: &Row) {
+        // Writing into a String cannot fail.
+        let _ = write!(self.out, "{},", r.k);
+        self.out.push_str(&r.direct);
+        self.out.push(',');
+        self.out.push_str(r.closed.as_deref().unwrap_or(""));
+        self.out.push(',');
+        self.out.push_str(r.rel_diff.as_deref().unwrap_or(""));
+        self.out.push('\n');
+    }
+
+    pub fn finish(self) -> String {
+        self.out
+    }
+}
+
+impl RowSink for CsvRows {
+    fn expect(&mut self, rows: u64) {
+        // A row is about as long as its direct value (digits, point, exponent) plus the index
+        // and the commas; checked rows are longer, but few.
+        let typical = self.digits as usize + 16;
+        self.out
+            .reserve((rows.min(MAX_CSV_RESERVE_ROWS) as usize).saturating_mul(typical));
+    }
+
+    fn take(&mut self, row: Row) {
+        self.write(&row);
+    }
+}
+
+/// Space is reserved up front for at most this many rows; longer tables grow as they go.
+const MAX_CSV_RESERVE_ROWS: u64 = 1_000_000;
 
 pub fn table_json(t: &Table) -> Value {
     json!({
