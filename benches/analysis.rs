@@ -64,11 +64,36 @@ fn tail_corrections(c: &mut Criterion) {
     });
 }
 
+/// `solve --digits 1000` on examples/citation_growth.rule with a value of rho, whole process
+/// (parse, solve, total, mean and variance by Euler–Maclaurin with their numeric checks, text
+/// output). Goal (README): at most 2 s. rho = 7/10 has a finite variance (three sums),
+/// rho = 3/10 an infinite one.
+fn thousand_digits(c: &mut Criterion) {
+    let model = concat!(env!("CARGO_MANIFEST_DIR"), "/examples/citation_growth.rule");
+    let run = |rho: &str| {
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_telescope"))
+            .args(["solve", model, "--param", rho, "--digits", "1000"])
+            .output()
+            .expect("the binary runs");
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        out.stdout.len()
+    };
+    for rho in ["rho=3/10", "rho=7/10"] {
+        c.bench_function(&format!("digits/citation {rho}/solve_1000_digits"), |b| {
+            b.iter(|| run(rho))
+        });
+    }
+}
+
 const CITATION: &str = "n(k)/n(k-1) = (1-rho)(k-1) / (1 + (1-rho) k)   for k >= 2";
 
 criterion_group! {
     name = benches;
     config = Criterion::default().sample_size(10);
-    targets = normalisation, tail_corrections
+    targets = normalisation, tail_corrections, thousand_digits
 }
 criterion_main!(benches);
