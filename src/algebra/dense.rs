@@ -20,6 +20,38 @@ pub(crate) fn evaluate(p: &[Q], x: &Q) -> Q {
     p.iter().rev().fold(Q::zero(), |acc, a| acc * x + a)
 }
 
+/// The sign of `p(x)`: −1, 0 or 1.
+pub(crate) fn sign_at(p: &[Q], x: &Q) -> i8 {
+    sign_at_fraction(p, x.numer(), x.denom())
+}
+
+/// The sign of `p(u/v)` for v > 0 (u/v need not be in lowest terms). With integer coefficients
+/// (the Sturm chains of the root search) it is the sign of Σ a_i u^i v^(d−i), found in
+/// integers: no rational is normalised, which at the long dyadic midpoints of a deep bisection
+/// costs far more than the products themselves.
+pub(crate) fn sign_at_fraction(p: &[Q], u: &BigInt, v: &BigInt) -> i8 {
+    let sign = |value: &BigInt| match value.sign() {
+        num_bigint::Sign::Minus => -1,
+        num_bigint::Sign::NoSign => 0,
+        num_bigint::Sign::Plus => 1,
+    };
+    if !p.iter().all(|a| a.is_integer()) {
+        let x = Q::new(u.clone(), v.clone());
+        return sign(evaluate(p, &x).numer());
+    }
+    let Some(top) = p.last() else {
+        return 0;
+    };
+    // Horner from the top: the powers of v rise as the powers of u fall.
+    let mut value = top.to_integer();
+    let mut v_power = BigInt::one();
+    for a in p[..p.len() - 1].iter().rev() {
+        v_power *= v;
+        value = value * u + a.numer() * &v_power;
+    }
+    sign(&value)
+}
+
 pub(crate) fn derivative(p: &[Q]) -> Vec<Q> {
     p.iter()
         .enumerate()

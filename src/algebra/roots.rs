@@ -10,7 +10,11 @@
 use num_bigint::BigInt;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
-use super::dense::{derivative, divide, evaluate, gcd, integer_primitive, trimmed};
+use num_integer::Integer;
+
+use super::dense::{
+    derivative, divide, gcd, integer_primitive, sign_at, sign_at_fraction, trimmed,
+};
 use super::rational::Q;
 
 /// Rational roots of `Σ coeffs[i] x^i`, each with its multiplicity, ascending by root, and the
@@ -124,23 +128,61 @@ fn divisors(n: u64) -> Vec<u64> {
 /// Finds the rational roots of a square-free primitive integer polynomial, ascending.
 fn search_roots(square_free: &[Q], out: &mut Vec<Q>) {
     let chain = sturm_chain(square_free);
-    let lead = square_free.last().expect("non-constant").abs();
-    let bound = cauchy_bound(square_free);
+    let lead = square_free.last().expect("non-constant").abs().to_integer();
+    let bound = cauchy_bound(square_free).to_integer();
     let mut search = RootSearch {
         poly: square_free,
         chain: &chain,
         lead: &lead,
         out,
     };
-    let (low, high) = (-bound.clone(), bound);
+    let (low, high) = (Dyadic::integer(-bound.clone()), Dyadic::integer(bound));
     let (v_low, v_high) = (search.variations(&low), search.variations(&high));
     search.bisect(low, v_low, high, v_high);
+}
+
+/// `num / 2^exp`: the bisection's points, kept as integers so that no step normalises a
+/// rational (the midpoints of a deep search have long denominators, and a polynomial with
+/// large coefficients needs a deep search).
+#[derive(Clone, Debug)]
+struct Dyadic {
+    num: BigInt,
+    exp: u32,
+}
+
+impl Dyadic {
+    fn integer(n: BigInt) -> Self {
+        Dyadic { num: n, exp: 0 }
+    }
+
+    fn denominator(&self) -> BigInt {
+        BigInt::one() << self.exp
+    }
+
+    /// The numerator over 2^exp, for exp ≥ self.exp.
+    fn over(&self, exp: u32) -> BigInt {
+        &self.num << (exp - self.exp)
+    }
+
+    fn midpoint(&self, other: &Dyadic) -> Dyadic {
+        let exp = self.exp.max(other.exp);
+        let mut mid = Dyadic {
+            num: self.over(exp) + other.over(exp),
+            exp: exp + 1,
+        };
+        // Keep the fraction short: drop common factors of 2.
+        let twos = mid.num.trailing_zeros().unwrap_or(0).min(mid.exp as u64) as u32;
+        mid.num >>= twos;
+        mid.exp -= twos;
+        mid
+    }
 }
 
 struct RootSearch<'a> {
     poly: &'a [Q],
     chain: &'a [Vec<Q>],
-    lead: &'a Q,
+    /// |leading coefficient|, an integer: every rational root is a multiple of 1/lead.
+    lead: &'a BigInt,
     out: &'a mut Vec<Q>,
 }
 
@@ -149,36 +191,38 @@ impl RootSearch<'_> {
     /// `V(a) - V(b)` counts its distinct real roots in `(a, b]` (Sturm's theorem; Basu,
     /// Pollack, Roy, "Algorithms in Real Algebraic Geometry", ch. 2). The half-open form holds
     /// because V is right-continuous at a root of a square-free polynomial.
-    fn variations(&self, x: &Q) -> usize {
+    fn variations(&self, x: &Dyadic) -> usize {
+        let denominator = x.denominator();
         let signs = self
             .chain
             .iter()
-            .map(|p| evaluate(p, x))
-            .filter(|value| !value.is_zero())
-            .map(|value| value.is_positive())
+            .map(|p| sign_at_fraction(p, &x.num, &denominator))
+            .filter(|&sign| sign != 0)
             .collect::<Vec<_>>();
         signs.windows(2).filter(|pair| pair[0] != pair[1]).count()
     }
 
     /// Looks for rational roots in `(low, high]`, given the chain's variations at both ends.
-    fn bisect(&mut self, low: Q, v_low: usize, high: Q, v_high: usize) {
+    fn bisect(&mut self, low: Dyadic, v_low: usize, high: Dyadic, v_high: usize) {
         if v_low == v_high {
             return;
         }
         // Every rational root is a multiple of 1/L; an interval shorter than 1/L holds at
         // most one such multiple, namely floor(L·high)/L if it exceeds low.
-        let scaled_high = (self.lead * &high).floor();
-        if scaled_high <= self.lead * &low {
+        let scaled_high = (self.lead * &high.num).div_floor(&high.denominator());
+        // floor(L·high) ≤ L·low, both sides over 2^low.exp.
+        if (&scaled_high << low.exp) <= self.lead * &low.num {
             return;
         }
-        if (&high - &low) * self.lead < Q::one() {
-            let candidate = scaled_high / self.lead;
-            if evaluate(self.poly, &candidate).is_zero() {
+        let exp = low.exp.max(high.exp);
+        if (high.over(exp) - low.over(exp)) * self.lead < (BigInt::one() << exp) {
+            let candidate = Q::new(scaled_high, self.lead.clone());
+            if sign_at(self.poly, &candidate) == 0 {
                 self.out.push(candidate);
             }
             return;
         }
-        let middle = (&low + &high) / Q::from_integer(BigInt::from(2));
+        let middle = low.midpoint(&high);
         let v_middle = self.variations(&middle);
         self.bisect(low, v_low, middle.clone(), v_middle);
         self.bisect(middle, v_middle, high, v_high);

@@ -157,6 +157,76 @@ pub fn moment_sums(rule: &NumericRule, digits: u32) -> Result<MomentSums, SumFai
     euler_maclaurin(rule, &shifts, digits, prec)
 }
 
+/// A bound U(k+1) ≥ sup_{m ≥ k+1} |R(m)| that falls towards |c| as k grows, for k ≥ `start`
+/// (where every denominator factor m + b is positive). Each numerator |m + a| ≤ m + |a|; the
+/// numerators, largest |a| first, are paired with the denominators, smallest b first. A pair
+/// (m + A)/(m + B) is at most max((k+1+A)/(k+1+B), 1) for m ≥ k+1 (it decreases when A ≥ B and
+/// stays below 1 when A < B), and each denominator left over at most 1/(k+1+B). Pairing only
+/// needs the denominators positive, so the check starts after the most negative denominator
+/// shift rather than after the largest shift of any sign (a rule such as
+/// k/((k−1)(k + 10^98)) is summed in a few terms, not refused after 10^6).
+struct RatioBound {
+    /// |a| of every numerator factor (repeated by its power), largest first.
+    numerators: Vec<Rational>,
+    /// b of every denominator factor (repeated by its power), smallest first.
+    denominators: Vec<Rational>,
+    start: BigInt,
+}
+
+impl RatioBound {
+    fn new(shifts: &[(Q, i32)]) -> Self {
+        let mut numerators = Vec::new();
+        let mut denominators = Vec::new();
+        for (s, e) in shifts {
+            for _ in 0..e.unsigned_abs() {
+                if *e > 0 {
+                    numerators.push(to_rug_rational(&s.abs()));
+                } else {
+                    denominators.push(to_rug_rational(s));
+                }
+            }
+        }
+        numerators.sort_by(|a, b| b.cmp(a));
+        denominators.sort();
+        // The first k with k + 1 + b > 0 for every denominator shift b, and k ≥ 2.
+        let most_negative = shifts
+            .iter()
+            .filter(|(_, e)| *e < 0)
+            .map(|(s, _)| -s)
+            .max()
+            .unwrap_or_else(Q::zero)
+            .max(Q::zero());
+        let start = most_negative.floor().to_integer() + 2;
+        RatioBound {
+            numerators,
+            denominators,
+            start,
+        }
+    }
+
+    /// U(next), or None when R has more numerator than denominator factors (no bound).
+    fn at(&self, abs_c: &Rational, next: &rug::Integer) -> Option<Rational> {
+        if self.numerators.len() > self.denominators.len() {
+            return None;
+        }
+        let mut u = abs_c.clone();
+        for (i, b) in self.denominators.iter().enumerate() {
+            let below = Rational::from(next + b);
+            match self.numerators.get(i) {
+                Some(a) => {
+                    let above = Rational::from(next + a);
+                    if above > below {
+                        u *= above;
+                        u /= below;
+                    }
+                }
+                None => u /= below,
+            }
+        }
+        Some(u)
+    }
+}
+
 /// R(k) exactly.
 fn ratio_at(constant: &Q, shifts: &[(Q, i32)], k: &BigInt) -> Option<Rational> {
     let mut r = to_rug_rational(constant);
@@ -285,13 +355,7 @@ fn term_by_term(
     prec: u32,
 ) -> Result<MomentSums, SumFailure> {
     let target = Float::with_val(64, Float::i_exp(1, -(bits_for_digits(digits + 3) as i32)));
-    // Beyond this k every factor keeps its sign and the bound U(k) decreases.
-    let max_shift = shifts
-        .iter()
-        .map(|(s, _)| s.abs())
-        .max()
-        .unwrap_or_else(Q::zero);
-    let start: BigInt = (max_shift.to_integer() + BigInt::from(2)).max(BigInt::from(1));
+    let bound = RatioBound::new(shifts);
     let abs_c = to_rug_rational(&constant.abs());
     let mut head = Head::new(base, prec);
     loop {
@@ -300,22 +364,12 @@ fn term_by_term(
                 "the terms decay too slowly to sum {MAX_TERMS} of them"
             )));
         }
-        if head.k >= start {
-            // sup_{m>k} |R(m)| ≤ U(k+1) = |c| Π_{e>0}(k+1+|α|)^e / Π_{e<0}(k+1−|α|)^|e|,
-            // decreasing in k when deg num ≤ deg den (pair each numerator factor with a
-            // denominator factor; common practice bound for hypergeometric terms).
+        if head.k >= bound.start {
             let next = to_rug_integer(&(&head.k + 1));
-            let mut u = abs_c.clone();
-            for (s, e) in shifts {
-                let s = to_rug_rational(&s.abs());
-                for _ in 0..e.unsigned_abs() {
-                    if *e > 0 {
-                        u *= Rational::from(&next + &s);
-                    } else {
-                        u /= Rational::from(&next - &s);
-                    }
-                }
-            }
+            let Some(u) = bound.at(&abs_c, &next) else {
+                head.step(constant, shifts)?;
+                continue;
+            };
             let k_now = to_rug_integer(&head.k);
             let mut done = true;
             let mut bounds = [Float::new(64), Float::new(64), Float::new(64)];
@@ -541,4 +595,51 @@ fn tail_sum(
         error += c_error;
     }
     None
+}
+
+#[cfg(test)]
+mod ratio_bound_tests {
+    use super::*;
+    use crate::algebra::parse_q;
+
+    /// |R(m)| ≤ U(k+1) for every m ≥ k+1 checked (k + 1 … k + 400 and a few far points), on
+    /// rules with shifts of both signs in numerators and denominators (the bound's own
+    /// argument; the check is exact, in rationals).
+    #[test]
+    fn the_bound_holds_beyond_its_start() {
+        let rules: [(&str, &[(&str, i32)]); 5] = [
+            ("1/2", &[("1", 1), ("3", -1)]),
+            ("5", &[("7", 1), ("1", -1), ("1/2", -1)]),
+            ("2/3", &[("-9", 1), ("0", -1)]),
+            (
+                "1/3",
+                &[("-1/2", 1), ("-5/2", -1), ("4", 2), ("-1", -1), ("9/2", -2)],
+            ),
+            (
+                "28/3",
+                &[("0", 1), ("-1", -1), ("1000000000000000000000001", -1)],
+            ),
+        ];
+        for (c, factors) in rules {
+            let constant = parse_q(c).unwrap();
+            let shifts: Vec<(Q, i32)> = factors
+                .iter()
+                .map(|(s, e)| (parse_q(s).unwrap(), *e))
+                .collect();
+            let bound = RatioBound::new(&shifts);
+            let abs_c = to_rug_rational(&constant.abs());
+            for k in [bound.start.clone(), &bound.start + 7, &bound.start + 100] {
+                let next = to_rug_integer(&(&k + 1));
+                let u = bound.at(&abs_c, &next).expect("deg num ≤ deg den");
+                let far = [10_000u64, 1_000_000, 1 << 40];
+                let ms = (1..=400u64)
+                    .map(|d| &k + d)
+                    .chain(far.iter().map(|&d| &k + d));
+                for m in ms {
+                    let r = ratio_at(&constant, &shifts, &m).expect("no pole").abs();
+                    assert!(r <= u, "{c} {factors:?}: |R({m})| = {r} > U = {u}");
+                }
+            }
+        }
+    }
 }
