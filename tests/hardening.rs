@@ -369,3 +369,36 @@ fn a_huge_denominator_shift_is_summed_in_a_few_terms() {
         "{stdout}"
     );
 }
+
+/// cargo-fuzz `model` and `claim` findings (panic in debug builds, a wrapped precision in
+/// release): the closed form's working precision was summed in u32 from the logarithm of its
+/// terms, which for a number with 90 digits in a shift is unbounded. It is now summed in u64
+/// and capped (`MAX_CLOSED_FORM_BITS`); beyond the cap the evaluation says so.
+#[test]
+fn an_unbounded_working_precision_is_refused_not_wrapped() {
+    let model = b"b(k)/a/555555555555555555555555555555555555555555555555555555555555555555555555555555555555555555b a(t)/a /a kk-2 kk-3";
+    telescope::fuzzing::model_pipeline(model);
+    let claim = b"a3333-a1/3*alpha +(1- k)561404245424526665009960500*4656140424524452";
+    telescope::fuzzing::claim_check(claim);
+}
+
+/// cargo-fuzz `parse` finding (timeout): sums of fractions in 15 names, brought over common
+/// denominators, grew past 3,600 terms and the gcds of each further sum ran for minutes. Every
+/// step is now checked against the 1000-term limit; the refusal names the sum, at once.
+#[test]
+fn fractions_over_a_growing_common_denominator_are_refused() {
+    let input = "a/a-k k-(nk)1/n(2-rho)An(k-or1rRok-1n(k)/n(k-2)mua/a-k k-(nk)1/n(2-rho)An(k-or1rRok-1n(k)/n(k-2)mu (1-rho)An1)1u1rRok- k-(nk)1/n(2-rho)An(k-r1orRok-1n(k)/n(k-2)mu (1-rho)An1)1u1rRok-1n(k)/n(k-2)mu (1-rho)1n(k)/n(k- m)u2(1-rho)An(k-o+k) (1-rho)An1)1u1rRok- k-(nk)1/n(2-rho)An(k-r1orRok-1n(k)/n(k-2)mu (1-rho)An1)1u1rRok-1n(k)/n(k-2)mu (1-rho)1n(k)/n(k- m)u2(1-rho)An(k-o+k)";
+    let out = with_stdin(&["solve", "-"], input);
+    assert_eq!(out.status.code(), Some(2));
+    let stderr = text(&out.stderr);
+    assert!(
+        stderr.contains("too large to work with: expanded, it has")
+            && stderr.contains("(at most 1000)"),
+        "{stderr}"
+    );
+    // A product of parameter sums expands as well: 2^14 terms.
+    let product = "a(k)/a(k-1) = (c1+b)(c+d)(e+f)(g+h)(i+j)(l+m)(n+o)(p+q)(r+s)(t+u)(v+w)(x+y)(z1+z2)(z3+z4)/(k+1)";
+    let out = with_stdin(&["solve", "-"], product);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(text(&out.stderr).contains("expanded, it has 1024 terms"));
+}

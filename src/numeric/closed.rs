@@ -21,7 +21,14 @@ pub enum ClosedValueError {
     Pole(String),
     /// A negative base under a non-integer power.
     NotReal(String),
+    /// The value needs more working precision than `MAX_CLOSED_FORM_BITS` (its logarithm, or
+    /// an argument's distance to a pole of Γ, is too large).
+    TooLarge(String),
 }
+
+/// The most bits the closed form is evaluated with (about 30,000 digits of working precision:
+/// ten times what 1000 printed digits of a value near 10^(±10^9) need).
+pub const MAX_CLOSED_FORM_BITS: u64 = 100_000;
 
 impl From<EvalError> for ClosedValueError {
     fn from(e: EvalError) -> Self {
@@ -55,10 +62,23 @@ pub fn evaluate_closed_form(
             magnitude += ln_abs.to_f64().abs();
         }
     }
-    let prec = bits_for_digits(digits)
-        + GUARD_BITS
-        + magnitude.log2().ceil().max(0.0) as u32
-        + probe.extra_bits;
+    // In u64 and checked: a huge magnitude (or its infinity) must not wrap the precision.
+    let size_bits = magnitude.log2().ceil().max(0.0);
+    let prec = if size_bits.is_finite() && size_bits < MAX_CLOSED_FORM_BITS as f64 {
+        bits_for_digits(digits) as u64
+            + GUARD_BITS as u64
+            + size_bits as u64
+            + probe.extra_bits as u64
+    } else {
+        u64::MAX
+    };
+    if prec > MAX_CLOSED_FORM_BITS {
+        return Err(ClosedValueError::TooLarge(format!(
+            "it needs {} bits of working precision (at most {MAX_CLOSED_FORM_BITS}); its terms' logarithms add up to about {magnitude:.3e}",
+            if prec == u64::MAX { "unboundedly many".to_string() } else { prec.to_string() }
+        )));
+    }
+    let prec = prec as u32;
     let exact = evaluate_terms(form, k, params, base_value, prec)?;
     let mut value = LogReal::one(prec);
     for term in exact.terms {
