@@ -18,6 +18,10 @@ use crate::syntax::{self, BinOp, Expr, ExprKind, ParamConstraint, StatementKind}
 /// second (measured before this limit: `(k+1)^60/(k+2)^60` 0.03 s, `(rho-1)^128 (k+1)/(k+2)`
 /// 1.2 s, `(k+1)^1000/(k+2)^1000` 9 s, `(rho k-1)^1000/(k+2)` over 100 s).
 pub const MAX_DEGREE: u64 = 120;
+/// Highest degree in any one parameter (checked as the rule is built, where the index is
+/// known: `model/expr.rs`). The index may go to `MAX_DEGREE`, since index factors stay
+/// factored; parameter polynomials are multiplied out in the tail law, moments and conditions.
+pub const MAX_PARAMETER_DEGREE: u64 = 48;
 /// Most monomials an expanded sum may have (`(rho + s - 1)^32` has 561 and takes 0.5 s;
 /// `(rho + s + t - 1)^20`, 1771, took 1.3 s before this limit).
 pub const MAX_EXPANDED_TERMS: u64 = 1000;
