@@ -429,3 +429,21 @@ fn a_parameter_of_high_degree_is_refused_and_the_index_is_not() {
         assert!(build_problem(rule).is_ok(), "{rule}");
     }
 }
+
+/// cargo-fuzz `model` finding (timeout): a denominator factor k − H with H about 10^53. The
+/// term-by-term sum can bound its remainder only beyond k = H, so it summed 10^6 terms (24 s)
+/// before giving up. It now gives up at once, saying where the factor changes sign.
+#[test]
+fn a_sign_change_beyond_reach_is_said_at_once() {
+    let out = with_stdin(
+        &["solve", "-", "--param", "rho=2", "--digits", "12"],
+        "a(k)/a(k-1) = -2/(k - 95013133350911520921726799805416395552341536708355503.5 + rho)",
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let stdout = text(&out.stdout);
+    assert!(
+        stdout.contains("a denominator factor of the rule changes sign at k = ")
+            && stdout.contains("(more than 1000000 terms)"),
+        "{stdout}"
+    );
+}

@@ -356,6 +356,14 @@ fn term_by_term(
 ) -> Result<MomentSums, SumFailure> {
     let target = Float::with_val(64, Float::i_exp(1, -(bits_for_digits(digits + 3) as i32)));
     let bound = RatioBound::new(shifts);
+    // The tail bound needs every denominator factor positive; when that starts beyond the
+    // most terms ever summed, say so now rather than after a million steps.
+    if (&bound.start - base) > BigInt::from(MAX_TERMS) {
+        return Err(SumFailure::Unsupported(format!(
+            "a denominator factor of the rule changes sign at k = {}, and the remainder can only be bounded beyond it (more than {MAX_TERMS} terms)",
+            &bound.start - 2
+        )));
+    }
     let abs_c = to_rug_rational(&constant.abs());
     let mut head = Head::new(base, prec);
     loop {
