@@ -447,3 +447,18 @@ fn a_sign_change_beyond_reach_is_said_at_once() {
         "{stdout}"
     );
 }
+
+/// Open cargo-fuzz `parse` finding (timeout, not yet fixed): nested fractions in k and three
+/// other names, about a hundred terms each, whose products take the multivariate
+/// subresultant gcd (`algebra::gcd::primitive_gcd_in`) for minutes while the rule is brought
+/// into normal form. The sizes stay within every limit, so no size check refuses it; the gcd
+/// itself needs a cheaper route (a modular or heuristic gcd) or a work limit. Kept here so
+/// that the fix has its reproducer: `cargo test --test hardening -- --ignored`.
+#[test]
+#[ignore = "open fuzz finding: a multivariate gcd that runs for minutes (see the comment)"]
+fn nested_fractions_in_four_names_are_answered_in_seconds() {
+    let input = "n(k)/n(n(k)/n(kq) - (k--1) - (k-2)/- (k--1) - (k-2)/(k0- (k-2)/(k0-k1) - (k--1) - (k-2)/- (k--1) - (k-2)/(k0-1-(k0-1-1)1k-2)/(k0-k1) - (k--0) - (k-2)/- (k--1) - (k-2)/(k0-1-(k0-1-1)1) - (k-2)/-1)1) - (k-2)/(k0-k1) - (k--1) - (k-2)/- (k--1) - (k-2)/(k0-1-(k0-1-1)1) - (k-2)/(k0-1-1)";
+    let started = std::time::Instant::now();
+    let _ = with_stdin(&["solve", "-"], input);
+    assert!(started.elapsed().as_secs() < 10);
+}
