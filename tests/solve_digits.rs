@@ -4,7 +4,7 @@
 //! derivation of the three hypergeometric sums from the rule). Every printed digit must match,
 //! and the numeric Euler–Maclaurin check must agree with the closed form to about 1000 digits.
 
-use std::process::Command;
+mod common;
 
 use serde_json::Value;
 
@@ -27,19 +27,17 @@ fn exponent(s: &str) -> i64 {
 }
 
 fn solve_json(rho: &str) -> Value {
-    let out = Command::new(env!("CARGO_BIN_EXE_telescope"))
-        .args([
-            "solve",
-            concat!(env!("CARGO_MANIFEST_DIR"), "/examples/citation_growth.rule"),
-            "--param",
-            &format!("rho={rho}"),
-            "--digits",
-            "1000",
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
+    let rho = format!("rho={rho}");
+    let out = common::telescope(&[
+        "solve",
+        "examples/citation_growth.rule",
+        "--param",
+        &rho,
+        "--digits",
+        "1000",
+        "--format",
+        "json",
+    ]);
     assert!(
         out.status.success(),
         "{}",

@@ -8,7 +8,7 @@
 
 use num_traits::ToPrimitive;
 
-use super::size::MAX_PARAMETER_DEGREE;
+use super::size::{too_large, MAX_EXPANDED_TERMS, MAX_PARAMETER_DEGREE};
 use crate::algebra::{Poly, RatFunc};
 use crate::diagnostic::{Diagnostic, Span};
 use crate::syntax::{BinOp, Expr, ExprKind};
@@ -238,25 +238,19 @@ fn within_size(f: &RatFunc, index: &str, span: &Span) -> Result<(), Diagnostic> 
         for name in poly.variables() {
             let degree = poly.degree_in(&name);
             if name != index && degree as u64 > MAX_PARAMETER_DEGREE {
-                return Err(Diagnostic::new(
+                return Err(too_large(
                     format!(
-                        "this expression is too large to work with: degree {degree} in the parameter {name} (at most {MAX_PARAMETER_DEGREE})"
+                        "degree {degree} in the parameter {name} (at most {MAX_PARAMETER_DEGREE})"
                     ),
                     span.clone(),
-                )
-                .with_help(
-                    "telescope answers in seconds; rules of researchers' models have small powers (check the exponents for a stray digit)",
                 ));
             }
         }
     }
     let terms = f.numer().terms().count().max(f.denom().terms().count());
-    if terms > super::size::MAX_EXPANDED_TERMS as usize {
-        return Err(Diagnostic::new(
-            format!(
-                "this expression is too large to work with: expanded, it has {terms} terms (at most {})",
-                super::size::MAX_EXPANDED_TERMS
-            ),
+    if terms > MAX_EXPANDED_TERMS as usize {
+        return Err(too_large(
+            format!("expanded, it has {terms} terms (at most {MAX_EXPANDED_TERMS})"),
             span.clone(),
         )
         .with_help(

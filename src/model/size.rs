@@ -10,7 +10,7 @@ use std::collections::BTreeMap;
 
 use num_traits::{Signed, ToPrimitive};
 
-use crate::diagnostic::Diagnostic;
+use crate::diagnostic::{Diagnostic, Span};
 use crate::syntax::{self, BinOp, Expr, ExprKind, ParamConstraint, StatementKind};
 
 /// Highest degree in any one name (numerator and denominator together). Solving, the tail
@@ -209,16 +209,20 @@ fn literal_exponent(expr: &Expr) -> Option<u64> {
     }
 }
 
+/// The refusal of an expression that is too large: `what` says by which measure. Shared with
+/// the checks on the built polynomials (`model/expr.rs`).
+pub(crate) fn too_large(what: String, span: Span) -> Diagnostic {
+    Diagnostic::new(
+        format!("this expression is too large to work with: {what}"),
+        span,
+    )
+    .with_help(
+        "telescope answers in seconds; rules of researchers' models have small powers (check the exponents for a stray digit)",
+    )
+}
+
 fn verdict(s: &Size, expands: bool, expr: &Expr) -> Result<(), Diagnostic> {
-    let too_large = |what: String| {
-        Err(Diagnostic::new(
-            format!("this expression is too large to work with: {what}"),
-            expr.span.clone(),
-        )
-        .with_help(
-            "telescope answers in seconds; rules of researchers' models have small powers (check the exponents for a stray digit)",
-        ))
-    };
+    let too_large = |what: String| Err(too_large(what, expr.span.clone()));
     let (degree, name) = s.max_degree();
     if degree > MAX_DEGREE {
         return too_large(format!(
