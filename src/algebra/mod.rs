@@ -28,6 +28,7 @@
 
 mod dense;
 mod gcd;
+mod modular;
 mod monomial;
 mod poly;
 mod poly_ops;

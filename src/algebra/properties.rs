@@ -77,6 +77,13 @@ proptest! {
     }
 
     #[test]
+    fn inverse_without_gcd_is_the_canonical_one(a in nonzero_ratfunc()) {
+        // `inv` swaps an already coprime numerator and denominator without a gcd; the result
+        // must be the same struct as the general constructor's.
+        prop_assert_eq!(a.inv(), RatFunc::new(a.denom().clone(), a.numer().clone()));
+    }
+
+    #[test]
     fn canonical_form_is_unique(num in small_poly(), den in nonzero_poly(), c in nonzero_poly()) {
         let plain = RatFunc::new(num.clone(), den.clone()).unwrap();
         let inflated = RatFunc::new(&num * &c, &den * &c).unwrap();

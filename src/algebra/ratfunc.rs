@@ -179,7 +179,10 @@ impl RatFunc {
 
     /// `1/self`; `None` for zero.
     pub fn inv(&self) -> Option<RatFunc> {
-        RatFunc::new(self.den.clone(), self.num.clone())
+        // Numerator and denominator are coprime already: swapping them needs no gcd, only the
+        // denominator's content and sign moved (a gcd of two large coprime polynomials in many
+        // names took minutes on a fuzzed rule).
+        (!self.num.is_zero()).then(|| RatFunc::from_coprime(self.den.clone(), self.num.clone()))
     }
 
     /// `self / other`; `None` when `other` is zero.

@@ -1,0 +1,191 @@
+//! Images of polynomials over Q in the integers modulo one large prime, for degree bounds.
+//!
+//! The gcd needs, for each variable, an upper bound on the degree of gcd(a, b) in it. The
+//! degree of the gcd of two univariate images is such a bound as long as neither leading
+//! coefficient vanishes in the image: the image of a common divisor divides both images and
+//! keeps its degree (Geddes, Czapor, Labahn, "Algorithms for Computer Algebra", §7.4, where
+//! "unlucky" images only overestimate). Reducing modulo a prime as well as evaluating the other
+//! variables keeps every number in one machine word; evaluating over Q made numbers of
+//! thousands of digits on fuzzed rules with many names, and took minutes.
+
+use std::collections::BTreeMap;
+
+use num_bigint::Sign;
+
+use super::poly::Poly;
+use super::rational::Q;
+
+/// 2^61 − 1, a Mersenne prime: products of two residues fit in a `u128`.
+const PRIME: u64 = (1 << 61) - 1;
+
+fn mul(a: u64, b: u64) -> u64 {
+    ((a as u128 * b as u128) % PRIME as u128) as u64
+}
+
+fn add(a: u64, b: u64) -> u64 {
+    (a + b) % PRIME
+}
+
+fn sub(a: u64, b: u64) -> u64 {
+    (a + PRIME - b) % PRIME
+}
+
+fn pow(mut base: u64, mut e: u32) -> u64 {
+    let mut acc = 1;
+    while e > 0 {
+        if e & 1 == 1 {
+            acc = mul(acc, base);
+        }
+        base = mul(base, base);
+        e >>= 1;
+    }
+    acc
+}
+
+/// Inverse of a non-zero residue (Fermat).
+fn inverse(a: u64) -> u64 {
+    // PRIME − 2 does not fit the u32 exponent of `pow`: square-and-multiply by hand.
+    let (mut base, mut e, mut acc) = (a, PRIME - 2, 1);
+    while e > 0 {
+        if e & 1 == 1 {
+            acc = mul(acc, base);
+        }
+        base = mul(base, base);
+        e >>= 1;
+    }
+    acc
+}
+
+fn integer_residue(n: &num_bigint::BigInt) -> u64 {
+    let magnitude = n
+        .magnitude()
+        .iter_u64_digits()
+        .rev()
+        .fold(0u64, |acc, digit| {
+            // acc · 2^64 + digit, with 2^64 ≡ 8 (mod 2^61 − 1).
+            add(mul(acc, 8), digit % PRIME)
+        });
+    if n.sign() == Sign::Minus {
+        sub(0, magnitude)
+    } else {
+        magnitude
+    }
+}
+
+/// The residue of a rational, or `None` when its denominator is a multiple of the prime.
+fn residue(q: &Q) -> Option<u64> {
+    let denominator = integer_residue(q.denom());
+    (denominator != 0).then(|| mul(integer_residue(q.numer()), inverse(denominator)))
+}
+
+/// A point for the variables other than the main one: distinct pseudo-random residues that
+/// change with `attempt` (a fixed splitmix64 stream, so that runs are reproducible).
+pub(super) fn point(names: &[String], attempt: u64) -> BTreeMap<String, u64> {
+    names
+        .iter()
+        .enumerate()
+        .map(|(i, name)| {
+            let mut z = (attempt << 32 | i as u64).wrapping_add(0x9E37_79B9_7F4A_7C15);
+            z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+            z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+            z ^= z >> 31;
+            (name.clone(), 2 + z % (PRIME - 2))
+        })
+        .collect()
+}
+
+/// Coefficients (constant term first) of `p` as a polynomial in `var` with the other variables
+/// at `point`, modulo the prime; `None` when a coefficient's denominator vanishes there.
+pub(super) fn image(p: &Poly, var: &str, point: &BTreeMap<String, u64>) -> Option<Vec<u64>> {
+    let mut coeffs = vec![0u64; p.degree_in(var) as usize + 1];
+    for (monomial, c) in p.terms() {
+        let mut value = residue(c)?;
+        let mut degree = 0;
+        for (name, e) in monomial.factors() {
+            if name == var {
+                degree = e as usize;
+            } else {
+                value = mul(value, pow(point[name], e));
+            }
+        }
+        coeffs[degree] = add(coeffs[degree], value);
+    }
+    Some(coeffs)
+}
+
+/// Degree of the gcd of two univariate polynomials modulo the prime (Euclid's algorithm);
+/// `None` if either is zero.
+pub(super) fn gcd_degree(a: &[u64], b: &[u64]) -> Option<usize> {
+    let (mut a, mut b) = (trimmed(a), trimmed(b));
+    if a.is_empty() || b.is_empty() {
+        return None;
+    }
+    while !b.is_empty() {
+        let r = remainder(a, &b);
+        a = b;
+        b = r;
+    }
+    Some(a.len() - 1)
+}
+
+fn trimmed(p: &[u64]) -> Vec<u64> {
+    let len = p.iter().rposition(|&c| c != 0).map_or(0, |i| i + 1);
+    p[..len].to_vec()
+}
+
+/// `a mod b` for non-zero `b` with a non-zero leading coefficient; the result is trimmed.
+fn remainder(mut a: Vec<u64>, b: &[u64]) -> Vec<u64> {
+    let lead_inverse = inverse(*b.last().expect("non-zero"));
+    while a.len() >= b.len() {
+        let shift = a.len() - b.len();
+        let factor = mul(*a.last().expect("non-empty"), lead_inverse);
+        for (i, &c) in b.iter().enumerate() {
+            a[shift + i] = sub(a[shift + i], mul(factor, c));
+        }
+        a = trimmed(&a);
+    }
+    a
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::rational::q;
+    use num_bigint::BigInt;
+
+    #[test]
+    fn residues_agree_with_integer_arithmetic() {
+        // 2^64 and 2^128 + 5 modulo 2^61 − 1: 2^61 ≡ 1, so 2^64 ≡ 2^3 = 8 and 2^128 ≡ 2^6 = 64.
+        assert_eq!(integer_residue(&(BigInt::from(1) << 64)), 8);
+        assert_eq!(integer_residue(&((BigInt::from(1) << 128) + 5)), 69);
+        assert_eq!(integer_residue(&BigInt::from(-1)), PRIME - 1);
+        // 1/3 · 3 ≡ 1.
+        assert_eq!(mul(residue(&q(1, 3)).unwrap(), 3), 1);
+        assert_eq!(residue(&Q::new(1.into(), BigInt::from(PRIME))), None);
+        assert_eq!(mul(inverse(12345), 12345), 1);
+    }
+
+    #[test]
+    fn gcd_degree_of_images() {
+        // (x − 1)(x − 2) and (x − 1)(x + 5): gcd x − 1, degree 1; coprime images: degree 0.
+        let a = [2, sub(0, 3), 1];
+        let b = [sub(0, 5), 4, 1];
+        assert_eq!(gcd_degree(&a, &b), Some(1));
+        assert_eq!(gcd_degree(&a, &[1, 1]), Some(0));
+        assert_eq!(gcd_degree(&a, &a), Some(2));
+        assert_eq!(gcd_degree(&a, &[0, 0]), None);
+    }
+
+    #[test]
+    fn image_evaluates_the_other_variables() {
+        // p = x^2 y + x/2 − y at y = point: coefficients [−y, 1/2, y].
+        let x = Poly::var("x");
+        let y = Poly::var("y");
+        let half = Poly::constant(q(1, 2));
+        let p = &(&(&x * &x) * &y) + &(&(&half * &x) - &y);
+        let at = point(&["y".to_string()], 0);
+        let y_value = at["y"];
+        let coeffs = image(&p, "x", &at).unwrap();
+        assert_eq!(coeffs, vec![sub(0, y_value), inverse(2), y_value]);
+    }
+}
