@@ -34,4 +34,7 @@ pub use report::{
 };
 pub use sums::{closed_sum, Theorem};
 pub use symbolic::{Atom, Expr, Term};
-pub use tail::{numeric_corrections, tail_law, Tail};
+pub use tail::{
+    numeric_corrections, tail_law, OmittedCorrections, Tail, MAX_CORRECTION_TERMS,
+    MAX_CORRECTION_WORK,
+};

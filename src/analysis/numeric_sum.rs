@@ -11,7 +11,7 @@
 use num_bigint::BigInt;
 use num_traits::{Signed, ToPrimitive, Zero};
 use rug::ops::Pow;
-use rug::{Float, Rational};
+use rug::{Assign, Float, Integer, Rational};
 
 use super::bernoulli::bernoulli_numbers_gmp;
 use super::hurwitz::hurwitz_zeta;
@@ -229,30 +229,56 @@ impl RatioBound {
     }
 }
 
-/// R(k) exactly.
-fn ratio_at(constant: &Q, shifts: &[(Q, i32)], k: &BigInt) -> Option<Rational> {
-    let mut r = to_rug_rational(constant);
-    let kq = Q::from_integer(k.clone());
-    for (s, e) in shifts {
-        let x = to_rug_rational(&(&kq + s));
-        if x == 0 {
-            if *e < 0 {
-                return None;
-            }
-            return Some(Rational::new());
-        }
-        for _ in 0..e.unsigned_abs() {
-            if *e > 0 {
-                r *= &x;
-            } else {
-                r /= &x;
-            }
-        }
-    }
-    Some(r)
+/// R(k) = c · Π (k + s)^e exactly, with the constant and the shifts converted to GMP once:
+/// a slowly decaying sum takes up to a million steps, and converting them on every step was
+/// most of its time.
+struct ExactRatio {
+    constant: Rational,
+    shifts: Vec<(Rational, i32)>,
 }
 
-fn unsupported_zero(k: &BigInt) -> SumFailure {
+impl ExactRatio {
+    fn new(constant: &Q, shifts: &[(Q, i32)]) -> ExactRatio {
+        ExactRatio {
+            constant: to_rug_rational(constant),
+            shifts: shifts
+                .iter()
+                .map(|(s, e)| (to_rug_rational(s), *e))
+                .collect(),
+        }
+    }
+
+    /// R(k); `None` at a pole.
+    fn at(&self, k: &Integer) -> Option<Rational> {
+        let mut r = self.constant.clone();
+        let mut x = Rational::new();
+        for (s, e) in &self.shifts {
+            x.assign(s + k);
+            if x == 0 {
+                if *e < 0 {
+                    return None;
+                }
+                return Some(Rational::new());
+            }
+            for _ in 0..e.unsigned_abs() {
+                if *e > 0 {
+                    r *= &x;
+                } else {
+                    r /= &x;
+                }
+            }
+        }
+        Some(r)
+    }
+}
+
+/// R(k) exactly (for the tests).
+#[cfg(test)]
+fn ratio_at(constant: &Q, shifts: &[(Q, i32)], k: &BigInt) -> Option<Rational> {
+    ExactRatio::new(constant, shifts).at(&to_rug_integer(k))
+}
+
+fn unsupported_zero(k: &impl std::fmt::Display) -> SumFailure {
     SumFailure::Unsupported(format!("the rule divides by zero at k = {k}"))
 }
 
@@ -269,21 +295,23 @@ fn exact_finite(
             "a finite support of {terms} terms is too long to sum exactly"
         )));
     }
+    let ratio = ExactRatio::new(constant, shifts);
+    let last = to_rug_integer(last);
     let mut a = Rational::from(1);
     let mut sums = [Rational::new(), Rational::new(), Rational::new()];
-    let mut k = base.clone();
+    let mut k = to_rug_integer(base);
     loop {
-        let kr = Rational::from(to_rug_integer(&k));
+        let kr = Rational::from(&k);
         let mut w = Rational::from(1);
         for s in sums.iter_mut() {
             *s += Rational::from(&a * &w);
             w *= &kr;
         }
-        if k == *last {
+        if k == last {
             break;
         }
         k += 1;
-        let r = ratio_at(constant, shifts, &k).ok_or_else(|| unsupported_zero(&k))?;
+        let r = ratio.at(&k).ok_or_else(|| unsupported_zero(&k))?;
         a *= r;
     }
     let [s0, s1, s2] = sums;
@@ -300,7 +328,7 @@ fn exact_finite(
 /// Running sums of k^j a(k) at `prec` bits with the worst-case rounding count.
 struct Head {
     a: Float,
-    k: BigInt,
+    k: Integer,
     sums: [Float; 3],
     abs_sums: [Float; 3],
     steps: u64,
@@ -310,7 +338,7 @@ impl Head {
     fn new(base: &BigInt, prec: u32) -> Head {
         let mut head = Head {
             a: Float::with_val(prec, 1),
-            k: base.clone(),
+            k: to_rug_integer(base),
             sums: [Float::new(prec), Float::new(prec), Float::new(prec)],
             abs_sums: [Float::new(64), Float::new(64), Float::new(64)],
             steps: 0,
@@ -320,7 +348,7 @@ impl Head {
     }
 
     fn add_current(&mut self) {
-        let kf = Float::with_val(self.a.prec(), to_rug_integer(&self.k));
+        let kf = Float::with_val(self.a.prec(), &self.k);
         let mut term = self.a.clone();
         for j in 0..3 {
             self.abs_sums[j] += Float::with_val(64, term.abs_ref());
@@ -329,9 +357,9 @@ impl Head {
         }
     }
 
-    fn step(&mut self, constant: &Q, shifts: &[(Q, i32)]) -> Result<(), SumFailure> {
+    fn step(&mut self, ratio: &ExactRatio) -> Result<(), SumFailure> {
         self.k += 1;
-        let r = ratio_at(constant, shifts, &self.k).ok_or_else(|| unsupported_zero(&self.k))?;
+        let r = ratio.at(&self.k).ok_or_else(|| unsupported_zero(&self.k))?;
         self.a *= Float::with_val(self.a.prec(), &r);
         self.steps += 1;
         self.add_current();
@@ -373,6 +401,8 @@ fn term_by_term(
         )));
     }
     let abs_c = to_rug_rational(&constant.abs());
+    let ratio = ExactRatio::new(constant, shifts);
+    let bound_start = to_rug_integer(&bound.start);
     let mut head = Head::new(base, prec);
     loop {
         if head.steps > MAX_TERMS {
@@ -380,10 +410,10 @@ fn term_by_term(
                 "the terms decay too slowly to sum {MAX_TERMS} of them"
             )));
         }
-        if head.k >= bound.start {
-            let next = to_rug_integer(&(&head.k + 1));
+        if head.k >= bound_start {
+            let next = Integer::from(&head.k + 1);
             let u = bound.at(&abs_c, &next);
-            let k_now = to_rug_integer(&head.k);
+            let k_now = &head.k;
             let mut done = true;
             let mut bounds = [Float::new(64), Float::new(64), Float::new(64)];
             for (j, bound) in bounds.iter_mut().enumerate() {
@@ -398,7 +428,7 @@ fn term_by_term(
                     break;
                 }
                 let last_term = Float::with_val(64, head.a.abs_ref())
-                    * Float::with_val(64, &k_now).pow(j as u32);
+                    * Float::with_val(64, k_now).pow(j as u32);
                 let tail = Float::with_val(64, &rho / (1 - rho.clone()));
                 *bound = last_term * tail * 1.01f64;
                 let scale = Float::with_val(64, head.sums[j].abs_ref());
@@ -422,7 +452,7 @@ fn term_by_term(
                 });
             }
         }
-        head.step(constant, shifts)?;
+        head.step(&ratio)?;
     }
 }
 
@@ -456,6 +486,7 @@ fn euler_maclaurin(
     // its terms shrink roughly like n/(2πK) (common practice sizing).
     let mut head_len = (4 * digits as u64 + 64).max(8 * max_shift + 32);
     let constant = constant_of(rule);
+    let ratio = ExactRatio::new(&constant, shifts);
     let target = Float::with_val(64, Float::i_exp(1, -(bits_for_digits(digits + 3) as i32)));
     let c_value = law
         .prefactor_term
@@ -479,8 +510,9 @@ fn euler_maclaurin(
         }
         let first_tail = &rule.base_index + BigInt::from(head_len);
         let mut head = Head::new(&rule.base_index, prec);
-        while head.k < &first_tail - 1 {
-            head.step(&constant, shifts)?;
+        let last_head = to_rug_integer(&(&first_tail - 1));
+        while head.k < last_head {
+            head.step(&ratio)?;
         }
         let big_k = first_tail
             .to_u64()

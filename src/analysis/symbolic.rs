@@ -58,6 +58,22 @@ pub struct Expr {
 }
 
 impl Term {
+    /// Terms of every polynomial in it (numerators and denominators of the coefficient and of
+    /// each atom's arguments): the measure of how costly arithmetic with it will be.
+    pub fn size(&self) -> usize {
+        let of = |r: &RatFunc| r.numer().term_count() + r.denom().term_count();
+        let atoms: usize = self
+            .atoms
+            .iter()
+            .map(|(atom, _)| match atom {
+                Atom::Gamma(x) | Atom::Exp(x) | Atom::Log(x) => of(&x.0),
+                Atom::Power { base, exponent } => of(&base.0) + of(&exponent.0),
+                Atom::SqrtPi => 0,
+            })
+            .sum();
+        of(&self.coefficient) + atoms
+    }
+
     pub fn rational(c: RatFunc) -> Term {
         Term {
             coefficient: c,

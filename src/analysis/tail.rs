@@ -33,9 +33,55 @@ pub struct Tail {
     pub prefactor: Product,
     /// The same prefactor as an exact term (for arithmetic).
     pub prefactor_term: Term,
-    /// c₁ … c_N
+    /// c₁ … c_N: every asked-for correction that is small enough to write out.
     pub corrections: Vec<RatFunc>,
+    /// The asked-for corrections after `corrections` that were too large to write out.
+    pub omitted: Option<OmittedCorrections>,
 }
+
+/// Corrections `c_first … c_last` left unwritten because `c_first`, over the common
+/// denominator, has more than [`MAX_CORRECTION_TERMS`] terms, or building it would take more
+/// than [`MAX_CORRECTION_WORK`] products of terms.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct OmittedCorrections {
+    pub first: usize,
+    pub last: usize,
+    /// Terms of c_first's numerator over the common denominator; `None` when the work limit
+    /// stopped it before it was built.
+    pub terms: Option<usize>,
+}
+
+/// The most products of two terms spent on all the symbolic corrections together. Measured on
+/// this code: every shipped example and bench rule, and rules with up to five parameter
+/// factors above and five below, use at most 60,000 at `--terms 20` (the term limit stops them
+/// first); a product costs from 0.1 µs to 3 µs (many names, 17-digit coefficients), so the
+/// limit keeps the corrections under about half a second.
+pub const MAX_CORRECTION_WORK: u64 = 200_000;
+
+/// Counts products of terms in polynomial multiplication against [`MAX_CORRECTION_WORK`].
+#[derive(Default)]
+struct Meter {
+    used: u64,
+}
+
+impl Meter {
+    /// `a · b`, or `Err(None)` when its cost would pass the limit (an upper bound: the
+    /// product of the term counts).
+    fn mul(&mut self, a: &Poly, b: &Poly) -> Result<Poly, Option<usize>> {
+        self.used += (a.term_count() as u64).saturating_mul(b.term_count() as u64);
+        if self.used > MAX_CORRECTION_WORK {
+            return Err(None);
+        }
+        Ok(a * b)
+    }
+}
+
+/// The most terms a symbolic correction's numerator may have over the common denominator
+/// before it is reduced. The size grows about geometrically with n and the number of
+/// parameters: a rule with three parameter factors above and three below has 1,282 terms at
+/// c₄, 40,038 at c₈ and 369,286 at c₁₂ (4 minutes to reduce). Nobody reads such a
+/// correction; the numbers at given parameter values are still computed for every n.
+pub const MAX_CORRECTION_TERMS: usize = 2000;
 
 impl Tail {
     /// γ = −θ, the power-law tail exponent, when the law is a pure power (r = 1, d = 0).
@@ -89,8 +135,12 @@ pub fn exp_series(deltas: &[RatFunc]) -> Vec<RatFunc> {
 /// [`exp_series`] computed over one common denominator. With `h_i = P_i/D`, `δ_m = A_m/D^(m+1)`
 /// and `c_n = C_n/D^(2n)` where `C_n = (1/n) Σ_{m=1}^n m A_m C_{n−m} D^(m−1)` — polynomial
 /// arithmetic only, and one reduction per `c_n` at the end (reducing every intermediate sum
-/// made `--terms 10` take 21 s on a one-parameter rule).
-pub fn symbolic_corrections(form: &RisingForm, count: usize) -> Vec<RatFunc> {
+/// made `--terms 10` take 21 s on a one-parameter rule). Stops before the first `c_n` whose
+/// numerator has more than [`MAX_CORRECTION_TERMS`] terms, and says which were left out.
+pub fn symbolic_corrections(
+    form: &RisingForm,
+    count: usize,
+) -> (Vec<RatFunc>, Option<OmittedCorrections>) {
     let shifts = gamma_shifts(form);
     // D = lcm of the shifts' denominators.
     let mut common = Poly::one();
@@ -106,63 +156,83 @@ pub fn symbolic_corrections(form: &RisingForm, count: usize) -> Vec<RatFunc> {
             (h.numer() * &scale, *e)
         })
         .collect();
-    let mut d_powers = vec![Poly::one()];
-    for _ in 0..=count + 1 {
-        let next = d_powers.last().unwrap() * &common;
-        d_powers.push(next);
-    }
     let numbers = bernoulli_numbers(count + 1);
-    let p_powers: Vec<Vec<Poly>> = numerators
-        .iter()
-        .map(|(p, _)| {
-            let mut v = vec![Poly::one()];
-            for _ in 0..=count + 1 {
-                let next = v.last().unwrap() * p;
-                v.push(next);
+    let mut meter = Meter::default();
+    // Powers of D and of each P_i, extended as the corrections need them.
+    let mut d_powers = vec![Poly::one()];
+    let mut p_powers: Vec<Vec<Poly>> = numerators.iter().map(|_| vec![Poly::one()]).collect();
+    let mut a: Vec<Poly> = Vec::new();
+    let mut c = vec![Poly::one()];
+    let mut written = Vec::new();
+    let mut denominator = Poly::one();
+    for n in 1..=count {
+        let built = (|| {
+            // D^j and P_i^j for j ≤ n + 1, which A_n needs.
+            while d_powers.len() < n + 2 {
+                let next = meter.mul(d_powers.last().expect("D⁰"), &common)?;
+                d_powers.push(next);
             }
-            v
-        })
-        .collect();
-    // A_m = (−1)^(m+1)/(m(m+1)) Σ_i e_i D^(m+1) B_{m+1}(P_i/D), with
-    // D^n B_n(P/D) = Σ_j C(n, j) B_j P^(n−j) D^j (DLMF 24.2.5).
-    let a: Vec<Poly> = (1..=count)
-        .map(|m| {
-            let n = m + 1;
+            for ((p, _), powers) in numerators.iter().zip(&mut p_powers) {
+                while powers.len() < n + 2 {
+                    let next = meter.mul(powers.last().expect("P⁰"), p)?;
+                    powers.push(next);
+                }
+            }
+            // A_m = (−1)^(m+1)/(m(m+1)) Σ_i e_i D^(m+1) B_{m+1}(P_i/D), with
+            // D^n B_n(P/D) = Σ_j C(n, j) B_j P^(n−j) D^j (DLMF 24.2.5); here m = n.
+            let (m, degree) = (n, n + 1);
             let mut sum = Poly::zero();
             for ((_, e), powers) in numerators.iter().zip(&p_powers) {
                 let mut binom = BigInt::one();
                 let mut b = Poly::zero();
-                for (j, bj) in numbers.iter().enumerate().take(n + 1) {
+                for (j, bj) in numbers.iter().enumerate().take(degree + 1) {
                     if !bj.is_zero() {
-                        let c = bj * Q::from_integer(binom.clone());
-                        b += &(&powers[n - j] * &d_powers[j]).scale(&c);
+                        let coefficient = bj * Q::from_integer(binom.clone());
+                        b += &meter
+                            .mul(&powers[degree - j], &d_powers[j])?
+                            .scale(&coefficient);
                     }
-                    binom = binom * BigInt::from(n - j) / BigInt::from(j + 1);
+                    binom = binom * BigInt::from(degree - j) / BigInt::from(j + 1);
                 }
                 sum += &b.scale(&Q::from_integer(BigInt::from(*e)));
             }
             let sign = if m % 2 == 1 { 1 } else { -1 };
-            sum.scale(&Q::new(
+            a.push(sum.scale(&Q::new(
                 BigInt::from(sign),
                 BigInt::from((m * (m + 1)) as u64),
-            ))
-        })
-        .collect();
-    let mut c = vec![Poly::one()];
-    for n in 1..=count {
-        let mut sum = Poly::zero();
-        for m in 1..=n {
-            let term = &(&a[m - 1] * &c[n - m]) * &d_powers[m - 1];
-            sum += &term.scale(&Q::from_integer(BigInt::from(m as u64)));
-        }
-        c.push(sum.scale(&Q::new(BigInt::one(), BigInt::from(n as u64))));
+            )));
+            // C_n = (1/n) Σ_{m=1}^n m A_m C_{n−m} D^(m−1)
+            let mut sum = Poly::zero();
+            for m in 1..=n {
+                let product = meter.mul(&a[m - 1], &c[n - m])?;
+                let term = meter.mul(&product, &d_powers[m - 1])?;
+                sum += &term.scale(&Q::from_integer(BigInt::from(m as u64)));
+            }
+            if sum.term_count() > MAX_CORRECTION_TERMS {
+                return Err(Some(sum.term_count()));
+            }
+            let next_denominator = meter.mul(&denominator, &d_powers[2])?;
+            Ok((sum, next_denominator))
+        })();
+        let (sum, next_denominator) = match built {
+            Ok(parts) => parts,
+            Err(terms) => {
+                return (
+                    written,
+                    Some(OmittedCorrections {
+                        first: n,
+                        last: count,
+                        terms,
+                    }),
+                );
+            }
+        };
+        denominator = next_denominator;
+        let c_n = sum.scale(&Q::new(BigInt::one(), BigInt::from(n as u64)));
+        written.push(RatFunc::new(c_n.clone(), denominator.clone()).expect("D is not zero"));
+        c.push(c_n);
     }
-    (1..=count)
-        .map(|n| {
-            let denominator = d_powers[2].pow(n as u32);
-            RatFunc::new(c[n].clone(), denominator).expect("D is not zero")
-        })
-        .collect()
+    (written, None)
 }
 
 /// The tail law with `terms` correction coefficients.
@@ -196,7 +266,7 @@ pub fn tail_law(form: &RisingForm, base_index: &BigInt, terms: usize) -> Tail {
         .pow(i32::try_from(exponent).unwrap_or(0))
         .unwrap_or_else(RatFunc::one);
     let prefactor_term = Term { coefficient, atoms }.normalized();
-    let corrections = symbolic_corrections(form, terms);
+    let (corrections, omitted) = symbolic_corrections(form, terms);
     Tail {
         rate: form.constant.clone(),
         factorial_power: d,
@@ -204,6 +274,7 @@ pub fn tail_law(form: &RisingForm, base_index: &BigInt, terms: usize) -> Tail {
         prefactor: term_to_product(&prefactor_term),
         prefactor_term,
         corrections,
+        omitted,
     }
 }
 
@@ -544,8 +615,46 @@ mod tests {
             let form = RisingForm::from_ratio(&problem.ratio);
             let mut reduced = exp_series(&log_coefficients(&form, 5));
             reduced.remove(0);
-            assert_eq!(symbolic_corrections(&form, 5), reduced, "{rule}");
+            assert_eq!(symbolic_corrections(&form, 5), (reduced, None), "{rule}");
         }
+    }
+
+    #[test]
+    fn corrections_past_the_term_limit_are_omitted_and_the_rest_are_exact() {
+        // Three parameter factors above and three below: c₅ has 3646 terms over the common
+        // denominator. c₁ … c₄ are the same as the step-by-step reduced recurrences.
+        let rule = "a(k)/a(k-1) = (k+al)*(k+be)*(k+ep)/((k+ga)*(k+de)*(k+ze)) for k >= 1";
+        let problem = build_problem(rule).unwrap();
+        let form = RisingForm::from_ratio(&problem.ratio);
+        let (written, omitted) = symbolic_corrections(&form, 8);
+        let mut reduced = exp_series(&log_coefficients(&form, 4));
+        reduced.remove(0);
+        assert_eq!(written, reduced);
+        assert_eq!(
+            omitted,
+            Some(OmittedCorrections {
+                first: 5,
+                last: 8,
+                terms: Some(3646)
+            })
+        );
+        // A request that stops short of the limit omits nothing.
+        assert_eq!(symbolic_corrections(&form, 4).1, None);
+    }
+
+    #[test]
+    fn corrections_past_the_work_limit_are_omitted_before_they_are_built() {
+        // A fuzzed model (shifts in nine names with 17-digit numbers, `fuzz/corpus/model`):
+        // c₁ has 744 terms, and building c₂ would take more products of terms than the limit.
+        let text = "(k-B-666666666666666kVVVVVVVVVVVVVVVVVV6666666k)/p(k-1) (k+3(k+3h)10rho+00+3(k+3h)10rh)/p(k-1) (k+3(k+3h)10rho+00+3VVVVVV6666667k)/p(k-1) (k+3(k+3(k+3h)10rhk+3h0r)1ho+00h)";
+        let model = crate::model::build_model(text).unwrap();
+        let pieces = model.resolve(&BTreeMap::new()).unwrap();
+        let form = RisingForm::from_ratio(&pieces[0].problem.ratio);
+        let (written, omitted) = symbolic_corrections(&form, 3);
+        let omitted = omitted.expect("too large");
+        assert_eq!(omitted.terms, None, "{omitted:?}");
+        assert_eq!(written.len(), omitted.first - 1);
+        assert_eq!(omitted.last, 3);
     }
 
     #[test]

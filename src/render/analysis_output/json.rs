@@ -110,6 +110,14 @@ pub fn analysis_json(a: &Analysis) -> Map<String, Value> {
             "corrections": law.corrections.iter().enumerate().map(|(i, c)| {
                 with_value(&ratfunc_node(c), nums.and_then(|n| n.corrections.get(i)).map(|s| s.as_str()))
             }).collect::<Vec<_>>(),
+            "corrections_omitted": law.omitted.as_ref().map(|o| json!({
+                "first": o.first,
+                "last": o.last,
+                "terms": o.terms,
+                "max_terms": crate::analysis::MAX_CORRECTION_TERMS,
+                "max_work": crate::analysis::MAX_CORRECTION_WORK,
+                "values": nums.map(|n| n.corrections.get(o.first - 1..o.last.min(n.corrections.len())).unwrap_or(&[]).to_vec()),
+            })),
             "tail_exponent": law.tail_exponent().map(|g| {
                 with_value(&ratfunc_node(&g), nums.and_then(|n| n.tail_exponent.as_deref()))
             }),

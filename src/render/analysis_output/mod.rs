@@ -11,7 +11,8 @@ pub use json::analysis_json;
 use serde_json::{json, Value};
 
 use crate::analysis::{
-    Analysis, Finiteness, Inequality, Moment, NumberReport, Region, Requirement, Verdict,
+    Analysis, Finiteness, Inequality, Moment, NumberReport, OmittedCorrections, Region,
+    Requirement, Verdict,
 };
 pub(crate) use formula::subscript;
 
@@ -92,6 +93,30 @@ fn times(lead: Node, node: Node) -> Node {
         Node::Frac(n, d) => Node::frac(Node::product(vec![lead, *n]), *d),
         Node::Neg(inner) => times(lead, *inner).negate(),
         other => Node::product(vec![lead, other]),
+    }
+}
+
+/// `c₃` or `c₃…c₁₂`: the corrections left unwritten.
+pub(crate) fn omitted_label(omitted: &OmittedCorrections) -> String {
+    if omitted.first == omitted.last {
+        format!("c{}", subscript(omitted.first))
+    } else {
+        format!("c{}…c{}", subscript(omitted.first), subscript(omitted.last))
+    }
+}
+
+/// Why the corrections were left unwritten.
+pub(crate) fn omitted_reason(omitted: &OmittedCorrections) -> String {
+    let first = subscript(omitted.first);
+    match omitted.terms {
+        Some(terms) => format!(
+            "too large to write out: c{first} has {terms} terms over the common denominator (at most {})",
+            crate::analysis::MAX_CORRECTION_TERMS
+        ),
+        None => format!(
+            "too large to write out: building c{first} takes more than {} products of terms",
+            crate::analysis::MAX_CORRECTION_WORK
+        ),
     }
 }
 
@@ -182,6 +207,13 @@ pub fn analysis_text(a: &Analysis) -> String {
                 "  c{:<10}{}\n",
                 subscript(n + 1),
                 text::write(&ratfunc_node(c))
+            );
+        }
+        if let Some(omitted) = &law.omitted {
+            out += &format!(
+                "  {:<11}{}\n",
+                omitted_label(omitted),
+                omitted_reason(omitted)
             );
         }
         if let Some(nums) = &t.numbers {

@@ -156,6 +156,24 @@ pub(super) fn tail(page: &ReportPage) -> String {
             ),
         );
     }
+    if let Some(omitted) = &law.omitted {
+        use super::super::analysis_output::{omitted_label, omitted_reason};
+        let mut content = escape_text(&omitted_reason(omitted));
+        let values: Vec<String> = (omitted.first..=omitted.last)
+            .filter_map(|n| {
+                let value = numbers.and_then(|v| v.corrections.get(n - 1))?;
+                Some(format!(
+                    "c{} = {}",
+                    super::super::analysis_output::subscript(n),
+                    value_span(&format!("correction-{n}"), value)
+                ))
+            })
+            .collect();
+        if !values.is_empty() {
+            content += &format!("; at the given values: {}", values.join(", "));
+        }
+        facts += &fact(&omitted_label(omitted), &content);
+    }
     out += &format!("<dl class=\"facts\">\n{facts}</dl>\n");
     out += "<p>From Stirling's series for the Gamma quotient with Bernoulli polynomials (DLMF 5.11.8, 5.11.13).</p>\n";
     if let Some(check) = numbers.and_then(|n| n.check.as_ref()) {
