@@ -30,7 +30,7 @@ fn sub(a: u64, b: u64) -> u64 {
     (a + PRIME - b) % PRIME
 }
 
-fn pow(mut base: u64, mut e: u32) -> u64 {
+fn pow(mut base: u64, mut e: u64) -> u64 {
     let mut acc = 1;
     while e > 0 {
         if e & 1 == 1 {
@@ -44,16 +44,7 @@ fn pow(mut base: u64, mut e: u32) -> u64 {
 
 /// Inverse of a non-zero residue (Fermat).
 fn inverse(a: u64) -> u64 {
-    // PRIME − 2 does not fit the u32 exponent of `pow`: square-and-multiply by hand.
-    let (mut base, mut e, mut acc) = (a, PRIME - 2, 1);
-    while e > 0 {
-        if e & 1 == 1 {
-            acc = mul(acc, base);
-        }
-        base = mul(base, base);
-        e >>= 1;
-    }
-    acc
+    pow(a, PRIME - 2)
 }
 
 fn integer_residue(n: &num_bigint::BigInt) -> u64 {
@@ -105,7 +96,7 @@ pub(super) fn image(p: &Poly, var: &str, point: &BTreeMap<String, u64>) -> Optio
             if name == var {
                 degree = e as usize;
             } else {
-                value = mul(value, pow(point[name], e));
+                value = mul(value, pow(point[name], e.into()));
             }
         }
         coeffs[degree] = add(coeffs[degree], value);

@@ -35,8 +35,8 @@ fn constant(b: &BigInt) -> RatFunc {
 /// limit the closed form is not offered and the numbers are still summed.
 pub const MAX_CLOSED_MOMENT_SIZE: usize = 200;
 
-fn small(t: &Term) -> Option<()> {
-    (t.size() <= MAX_CLOSED_MOMENT_SIZE).then_some(())
+fn small(t: &Term) -> bool {
+    t.size() <= MAX_CLOSED_MOMENT_SIZE
 }
 
 /// `(E[n], E[n(n−1)])` by factorial moments, divided by the total `total`.
@@ -46,10 +46,9 @@ fn factorial_route(series: &HyperSeries, total_inv: &Term) -> (Piece, Piece) {
         if factor.is_zero() {
             return Some((Term::rational(RatFunc::zero()), Theorem::FirstTermOnly));
         }
-        let (sum, theorem) = closed_sum(&shifted)?;
-        small(&sum)?;
-        Some((sum.scale(&factor).mul(total_inv), theorem))
-            .filter(|(t, _)| t.size() <= MAX_CLOSED_MOMENT_SIZE)
+        let (sum, theorem) = closed_sum(&shifted).filter(|(s, _)| small(s))?;
+        let moment = sum.scale(&factor).mul(total_inv);
+        small(&moment).then_some((moment, theorem))
     };
     (piece(1), piece(2))
 }
@@ -57,9 +56,10 @@ fn factorial_route(series: &HyperSeries, total_inv: &Term) -> (Piece, Piece) {
 /// `(E[n+1], E[(n+1)²])` by the weights `(n+1)^r`.
 fn weight_route(series: &HyperSeries, total_inv: &Term) -> (Piece, Piece) {
     let piece = |r: u32| -> Piece {
-        let (sum, theorem) = closed_sum(&series.weighted_by_n_plus_one(r))?;
-        small(&sum)?;
-        Some((sum.mul(total_inv), theorem)).filter(|(t, _)| t.size() <= MAX_CLOSED_MOMENT_SIZE)
+        let (sum, theorem) =
+            closed_sum(&series.weighted_by_n_plus_one(r)).filter(|(s, _)| small(s))?;
+        let moment = sum.mul(total_inv);
+        small(&moment).then_some((moment, theorem))
     };
     (piece(1), piece(2))
 }
@@ -67,7 +67,7 @@ fn weight_route(series: &HyperSeries, total_inv: &Term) -> (Piece, Piece) {
 /// Mean and variance of k (support starting at `base`) from the series of the total and its
 /// closed form.
 pub fn closed_moments(series: &HyperSeries, total: &Term, base: &BigInt) -> ClosedMoments {
-    let Some(total_inv) = total.inv().filter(|t| t.size() <= MAX_CLOSED_MOMENT_SIZE) else {
+    let Some(total_inv) = total.inv().filter(small) else {
         return ClosedMoments {
             mean: None,
             variance: None,
