@@ -546,3 +546,31 @@ fn a_closed_total_too_large_to_square_gives_no_closed_mean() {
     let moments = after_total.split("\nmean ").nth(1).expect("a mean section");
     assert!(!moments.contains("closed form"), "{moments}");
 }
+
+/// cargo-fuzz `claim` finding (timeout; 37 s for `solve` on the command line): a rule with
+/// 3,000-digit constants. Its first tail correction has few terms, but products of such
+/// coefficients cost thousands of times a small one's, so the work limit of the corrections
+/// now weighs each product by the size of its coefficients, and decimal exponents stop at
+/// 1000 (a thousand digits is past any constant a model carries).
+#[test]
+fn thousand_digit_constants_leave_corrections_out_and_longer_ones_are_refused() {
+    let rule = "a(k)/a(k-1) = (k + 45e999*alpha)*(k + beta)/((k + 7e998*gam)*(k + delta + 2))";
+    let out = with_stdin(&["solve", "-", "--terms", "6", "--format", "json"], rule);
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let omitted = &json["tail"]["corrections_omitted"];
+    assert_eq!(omitted["first"], 2, "{omitted}");
+    assert_eq!(omitted["last"], 6);
+    assert!(omitted["terms"].is_null(), "the work limit stopped it");
+    assert_eq!(json["tail"]["corrections"].as_array().unwrap().len(), 1);
+
+    let out = with_stdin(&["solve", "-"], "a(k)/a(k-1) = (k + 45e1001*alpha)/(k + 2)");
+    assert_eq!(out.status.code(), Some(2));
+    let stderr = text(&out.stderr);
+    assert!(stderr.contains("this exponent is too large"), "{stderr}");
+    assert!(
+        stderr.contains("exponents up to 1000 are accepted"),
+        "{stderr}"
+    );
+    assert!(stderr.contains("line 1, column 23"), "{stderr}");
+}

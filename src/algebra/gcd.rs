@@ -47,13 +47,35 @@ fn gcd_with(a: &Poly, b: &Poly, shortcuts: bool) -> Poly {
     if let Some(rest) = small_case_gcd(&a, &b).filter(|_| shortcuts) {
         return normalise(&(&rest * &common_monomial));
     }
-    let Some((main, bound)) = choose_main_variable(&a, &b) else {
+    let bounds = degree_bounds(&a, &b);
+    if bounds.iter().all(|(_, bound)| *bound == Some(0)) {
+        // Degree 0 in every variable: the gcd is a constant (the usual case when adding
+        // rational functions), and no content needs computing.
+        return common_monomial;
+    }
+    let Some((main, bound)) = choose_main_variable(&a, &b, &bounds) else {
         return common_monomial;
     };
-    let (content_a, primitive_a) = content_and_primitive_in(&a, &main);
-    let (content_b, primitive_b) = content_and_primitive_in(&b, &main);
-    let content = gcd(&content_a, &content_b);
-    let primitive = primitive_gcd_in(primitive_a, primitive_b, &main, bound);
+    // The content of the gcd divides the gcd, so its degree in each other variable is within
+    // that variable's bound: bounds of 0 everywhere else make it a constant.
+    let content = if bounds
+        .iter()
+        .all(|(var, bound)| *var == main || *bound == Some(0))
+    {
+        Poly::one()
+    } else {
+        common_content_in(&a, &b, &main)
+    };
+    let (a, b) = if content.is_one() {
+        (a, b)
+    } else {
+        let divide = |p: &Poly| {
+            p.div_exact(&content)
+                .expect("the content divides the input")
+        };
+        (divide(&a), divide(&b))
+    };
+    let primitive = primitive_gcd_in(a, b, &main, bound);
     normalise(&(&(&content * &primitive) * &common_monomial))
 }
 
@@ -112,26 +134,46 @@ fn monomial_gcd(a: &Monomial, b: &Monomial) -> Monomial {
     )
 }
 
-/// Picks the main variable, with the degree bound of the gcd in it when one was computed.
-/// First choice: a variable only one input contains (the other's primitive part is then a
-/// constant); next, one whose degree bound is 0; otherwise the smallest bound, so the
-/// remainder sequence is short. `None` when neither input has a variable.
-fn choose_main_variable(a: &Poly, b: &Poly) -> Option<(String, Option<u32>)> {
+/// The degree bound of the gcd in every variable of either input (see [`degree_bound`]): 0
+/// for a variable only one input contains, `None` where no tried point was usable.
+fn degree_bounds(a: &Poly, b: &Poly) -> Vec<(String, Option<u32>)> {
     let mut variables = a.variables();
     variables.extend(b.variables());
-    if let Some(var) = variables
+    variables
+        .into_iter()
+        .map(|var| {
+            let bound = if a.contains_var(&var) && b.contains_var(&var) {
+                degree_bound(a, b, &var)
+            } else {
+                Some(0)
+            };
+            (var, bound)
+        })
+        .collect()
+}
+
+/// Picks the main variable, with the degree bound of the gcd in it when one was computed.
+/// First choice: a variable only one input contains (the gcd is then the common content of
+/// the coefficients in it); next, one whose degree bound is 0; otherwise the smallest bound,
+/// so the remainder sequence is short. `None` when neither input has a variable.
+fn choose_main_variable(
+    a: &Poly,
+    b: &Poly,
+    bounds: &[(String, Option<u32>)],
+) -> Option<(String, Option<u32>)> {
+    if let Some((var, _)) = bounds
         .iter()
-        .find(|v| !a.contains_var(v) || !b.contains_var(v))
+        .find(|(v, _)| !a.contains_var(v) || !b.contains_var(v))
     {
         return Some((var.clone(), None));
     }
-    let bounded = variables
+    let bounded = bounds
         .iter()
-        .filter_map(|v| degree_bound(a, b, v).map(|bound| (bound, v)))
+        .filter_map(|(v, bound)| bound.map(|bound| (bound, v)))
         .min();
     match bounded {
         Some((bound, var)) => Some((var.clone(), Some(bound))),
-        None => variables.into_iter().next().map(|v| (v, None)),
+        None => bounds.first().map(|(v, _)| (v.clone(), None)),
     }
 }
 
@@ -140,29 +182,50 @@ fn normalise(p: &Poly) -> Poly {
     p.content_and_primitive().1
 }
 
-/// Content of `p` as a polynomial in `var` (the gcd of its coefficients, which do not contain
-/// `var`) and the primitive part `p / content`. For non-zero `p` only.
-fn content_and_primitive_in(p: &Poly, var: &str) -> (Poly, Poly) {
-    let coeffs = p.coeffs_in(var);
-    if coeffs.iter().any(|c| !c.is_zero() && is_constant(c)) {
-        // A constant coefficient: the content is a unit.
-        return (Poly::one(), normalise(p));
+/// The gcd of every coefficient of `a` and of `b` as polynomials in `var` (coefficients do
+/// not contain `var`): the content the two share. Smallest coefficients first, stopping at
+/// the first unit, so that a coprime pair costs a few small gcds rather than the two whole
+/// contents. For non-zero `a` and `b` only.
+fn common_content_in(a: &Poly, b: &Poly, var: &str) -> Poly {
+    let mut coeffs = a.coeffs_in(var);
+    coeffs.extend(b.coeffs_in(var));
+    content_of(coeffs)
+}
+
+/// The gcd of a list of polynomials, not all zero: smallest first, stopping at the first unit.
+fn content_of(mut coeffs: Vec<Poly>) -> Poly {
+    coeffs.retain(|c| !c.is_zero());
+    if coeffs.iter().any(is_constant) {
+        return Poly::one();
     }
+    coeffs.sort_by_key(Poly::term_count);
     let mut content = Poly::zero();
-    for coeff in coeffs.iter().filter(|c| !c.is_zero()) {
+    for coeff in &coeffs {
         content = gcd(&content, coeff);
         if content.is_one() {
-            return (content, normalise(p));
+            break;
         }
+    }
+    content
+}
+
+/// Primitive part of `p` as a polynomial in `var`: `p` divided by the gcd of its coefficients.
+/// For non-zero `p` only.
+fn primitive_part_in(p: &Poly, var: &str) -> Poly {
+    let content = content_of(p.coeffs_in(var));
+    if content.is_one() {
+        return normalise(p);
     }
     let primitive = p
         .div_exact(&content)
         .expect("the content divides every coefficient");
-    (content, normalise(&primitive))
+    normalise(&primitive)
 }
 
-/// Gcd of two non-zero polynomials that are primitive in `var`; `known_bound` is a degree
-/// bound in `var` already computed for them (or for any multiples by factors free of `var`).
+/// Gcd of two non-zero polynomials whose coefficients in `var` have no common factor (each
+/// may still have a content of its own: the remainder sequence does not need primitive
+/// inputs); `known_bound` is a degree bound in `var` already computed for them (or for any
+/// multiples by factors free of `var`).
 fn primitive_gcd_in(a: Poly, b: Poly, var: &str, known_bound: Option<u32>) -> Poly {
     let (higher, lower) = if a.degree_in(var) >= b.degree_in(var) {
         (a, b)
@@ -219,7 +282,7 @@ fn subresultant_gcd(higher: Poly, lower: Poly, var: &str) -> Poly {
         let delta = a.degree_in(var) - b.degree_in(var);
         let remainder = pseudo_remainder(&a, &b, var);
         if remainder.is_zero() {
-            return content_and_primitive_in(&b, var).1;
+            return primitive_part_in(&b, var);
         }
         if remainder.degree_in(var) == 0 {
             return Poly::one();
@@ -316,6 +379,27 @@ mod tests {
         let expected = (&x + &y) * (&y + c(1));
         assert_eq!(Poly::gcd(&a, &b), expected);
         assert_eq!(Poly::gcd(&b, &a), expected);
+    }
+
+    #[test]
+    fn a_content_shared_by_both_inputs_beside_contents_of_their_own() {
+        use super::gcd_with;
+        // (yz + 1)(x² + y)(z + 2) and (yz + 1)(x² + x + z)(y + 3): as polynomials in x each
+        // has a content of its own, and only yz + 1 is common.
+        let (x, y, z) = (v("x"), v("y"), v("z"));
+        let shared = &y * &z + c(1);
+        let a = &shared * (x.pow(2) + &y) * (&z + c(2));
+        let b = &shared * (x.pow(2) + &x + &z) * (&y + c(3));
+        for (a, b) in [(&a, &b), (&b, &a)] {
+            assert_eq!(Poly::gcd(a, b), shared);
+            assert_eq!(gcd_with(a, b, false), shared);
+        }
+        // Content and primitive part both shared: (y + 1)²(x + y) and (y + 1)(x + y)(x − 1).
+        let a = (&y + c(1)).pow(2) * (&x + &y);
+        let b = (&y + c(1)) * (&x + &y) * (&x - c(1));
+        let expected = (&y + c(1)) * (&x + &y);
+        assert_eq!(Poly::gcd(&a, &b), expected);
+        assert_eq!(gcd_with(&a, &b, false), expected);
     }
 
     #[test]

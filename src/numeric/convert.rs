@@ -1,27 +1,14 @@
-//! Conversions from the algebra's exact numbers (`num`) to GMP numbers (`rug`).
+//! Conversions between the algebra's exact numbers (`num`) and GMP numbers (`rug`); they
+//! live in [`crate::algebra::rational`], which evaluates polynomials with GMP.
 
-use num_bigint::{BigInt, Sign};
-use num_rational::BigRational;
-use rug::integer::Order;
-use rug::{Integer, Rational};
-
-pub fn to_rug_integer(n: &BigInt) -> Integer {
-    let (sign, magnitude) = n.to_bytes_le();
-    let value = Integer::from_digits(&magnitude, Order::Lsf);
-    if sign == Sign::Minus {
-        -value
-    } else {
-        value
-    }
-}
-
-pub fn to_rug_rational(q: &BigRational) -> Rational {
-    Rational::from((to_rug_integer(q.numer()), to_rug_integer(q.denom())))
-}
+pub use crate::algebra::{from_rug_rational, to_rug_integer, to_rug_rational};
 
 #[cfg(test)]
 mod tests {
     use super::*;
+    use num_bigint::BigInt;
+    use num_rational::BigRational;
+    use rug::Rational;
 
     #[test]
     fn round_trips_large_and_negative_values() {
@@ -32,5 +19,7 @@ mod tests {
         );
         let q = BigRational::new(BigInt::from(-6), BigInt::from(4));
         assert_eq!(to_rug_rational(&q), Rational::from((-3, 2)));
+        let big = BigRational::new(n, BigInt::from(7) << 200);
+        assert_eq!(from_rug_rational(&to_rug_rational(&big)), big);
     }
 }

@@ -3,10 +3,9 @@
 
 use num_bigint::BigInt;
 use num_traits::ToPrimitive;
-use rug::Rational;
 
 use crate::algebra::Q;
-use crate::numeric::{to_rug_integer, DirectError};
+use crate::numeric::{from_rug_rational, to_rug_integer, DirectError};
 
 use super::{ChainValue, ChainedProduct, ModelSolution};
 
@@ -32,14 +31,9 @@ pub fn exact_terms(
     while chain.index() < *to {
         chain.step()?;
         match chain.value() {
-            ChainValue::Exact(q) => out.push(from_rug(&q)),
+            ChainValue::Exact(q) => out.push(from_rug_rational(&q)),
             ChainValue::Approx { .. } => unreachable!("the exact route stays exact"),
         }
     }
     Ok(out)
-}
-
-fn from_rug(q: &Rational) -> Q {
-    let (n, d) = (q.numer().to_string(), q.denom().to_string());
-    Q::new(n.parse().expect("integer"), d.parse().expect("integer"))
 }

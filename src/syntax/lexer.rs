@@ -18,8 +18,10 @@ use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::Pow;
 
-/// Scientific exponents beyond this are refused, so `1e999999999` cannot stall the parser.
-const MAX_DECIMAL_EXPONENT: u32 = 10_000;
+/// Scientific exponents beyond this are refused, so `1e999999999` cannot stall the parser. A
+/// thousand digits is far past any constant a model carries, and exact products of rules
+/// with 3,000-digit constants took seconds per value.
+const MAX_DECIMAL_EXPONENT: u32 = 1_000;
 
 /// Limits that keep every recursion over the tree (parsing, dropping, later layers) far
 /// from the end of the stack; real rules stay well inside them.

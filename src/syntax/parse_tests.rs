@@ -71,6 +71,7 @@ const MALFORMED: &[(&str, usize, usize, &str)] = &[
     ("(k-1)/k for k", 1, 9, "no relation"),
     ("x = 1.2.3", 1, 5, "`1.2.3` is not a number"),
     ("x = 2.5e-", 1, 8, "exponent of this number is missing"),
+    ("x = 4e1001 * k", 1, 7, "this exponent is too large"),
     ("x = k^", 1, 6, "missing an exponent after `^`"),
     ("param for > 0", 1, 7, "`for` is a reserved word"),
     ("in(k) = 2", 1, 1, "`in` is a reserved word"),
