@@ -574,3 +574,55 @@ fn thousand_digit_constants_leave_corrections_out_and_longer_ones_are_refused() 
     );
     assert!(stderr.contains("line 1, column 23"), "{stderr}");
 }
+
+/// cargo-fuzz `model` finding (timeout, 7 s): a shift of about 10^14 over k², so the terms
+/// grow for half a million steps before they decay, and the term-by-term sum ran them all.
+/// The sum's steps now reduce R(k) once rather than once per factor, reuse their working
+/// values and check the remainder bound on every 16th step after the first 1024 (3.7 s for
+/// that input). And when the bound on |R(m)| beyond the last step the sum could reach is
+/// still at least 1, the sum is refused before its first step: here a shift of 10^13.
+#[test]
+fn a_sum_that_cannot_end_within_its_step_limit_is_refused_at_once() {
+    let out = with_stdin(&["solve", "-"], "a(k)/a(k-1) = (k + 10^13)/(2*k*(k+1))");
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let stdout = text(&out.stdout);
+    assert!(
+        stdout.contains("numeric    no value: the terms decay too slowly to sum 1000000 of them"),
+        "{stdout}"
+    );
+}
+
+/// cargo-fuzz `claim` finding (timeout, 4 s): the claim `3888!8888888888888888888` against
+/// the generated rule. Γ(3888) was walked as 3887 products of `num` rationals, each reduced
+/// by a gcd; it is now a GMP factorial (a unit test in `check::exact` checks the values).
+#[test]
+fn a_claim_with_a_factorial_of_thousands_is_checked() {
+    telescope::fuzzing::claim_check(b"\n3888!8888888888888888888");
+    // 3888! = 3.256…e12270: log10 3888! = 12270.51 from Python's math.lgamma(3889)/ln 10.
+    let out = with_stdin(
+        &["check", "-", "--claim", "3888! * (1/2)^(k-1)"],
+        "a(k)/a(k-1) = 1/2",
+    );
+    assert_eq!(out.status.code(), Some(1), "{}", text(&out.stderr));
+    let stdout = text(&out.stdout);
+    assert!(stdout.contains("verdict      REFUTED"), "{stdout}");
+    assert!(
+        stdout.contains("wrong base value: the claim solves the rule but starts from a(1) = 3.25612483973e12270, not 1"),
+        "{stdout}"
+    );
+}
+
+/// cargo-fuzz `model` finding (timeout, 10 s): `(s+1-8)^20 (03)`, the rule 3(s − 7)^20. The
+/// total converges for |3(s − 7)^20| < 1, and the Sturm chain that isolates the two roots
+/// was evaluated in `num` rationals, a gcd at every Horner step on coefficients of hundreds
+/// of digits; it is now evaluated in GMP (0.4 s for the whole input). The roots are
+/// 7 ∓ 3^(−1/20) (Python: 7 - 3**(-1/20) = 6.053449177359841).
+#[test]
+fn the_range_of_a_rate_of_degree_twenty_is_isolated() {
+    let out = with_stdin(&["solve", "-"], "a(k)/a(k-1) = 3*(s-7)^20");
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let stdout = text(&out.stdout);
+    let total = stdout.lines().find(|l| l.contains("total is")).unwrap();
+    assert!(total.contains("≈ 6.05344917735984"), "{total}");
+    assert!(total.contains("≈ 7.94655082264015"), "{total}");
+}

@@ -16,7 +16,7 @@ use std::collections::BTreeMap;
 use num_bigint::BigInt;
 use num_traits::{One, Signed, Zero};
 
-use crate::algebra::{rational_roots, RatFunc, Q};
+use crate::algebra::{from_rug_rational, rational_roots, to_rug_rational, RatFunc, Q};
 use crate::model::{Param, Problem};
 
 use super::box_sign::{box_sign, BoxSign};
@@ -130,8 +130,17 @@ pub(super) fn trim(mut p: Vec<Q>) -> Vec<Q> {
     p
 }
 
+/// p(x) by Horner's scheme, in GMP: the Sturm chains of high-degree conditions carry
+/// coefficients of hundreds of digits, and `num`'s binary gcd at every step took 10 s to
+/// isolate the roots of a degree-20 rate (a fuzz finding).
 pub(super) fn evaluate(p: &[Q], x: &Q) -> Q {
-    p.iter().rev().fold(Q::zero(), |acc, a| acc * x + a)
+    let x = to_rug_rational(x);
+    let mut acc = rug::Rational::new();
+    for a in p.iter().rev() {
+        acc *= &x;
+        acc += to_rug_rational(a);
+    }
+    from_rug_rational(&acc)
 }
 
 pub(super) fn derivative(p: &[Q]) -> Vec<Q> {
