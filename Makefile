@@ -58,6 +58,9 @@ report-check: setup
 # each other's copy of the library.
 FUZZ_RUNS ?= 1000000
 FUZZ_TARGETS ?= parse model claim
+# More libFuzzer flags, e.g. FUZZ_ARGS="-fork=1 -ignore_timeouts=1 -ignore_ooms=1" to go on
+# past slow inputs (collected in fuzz/artifacts/TARGET) and stop only at a crash.
+FUZZ_ARGS ?=
 
 .PHONY: fuzz
 fuzz: setup
@@ -70,7 +73,7 @@ fuzz: setup
 	  RUSTC_BOOTSTRAP=1 cargo fuzz run --fuzz-dir fuzz --sanitizer none $$flags \
 	    --target-dir fuzz/target/$$t $$t \
 	    fuzz/work/$$t fuzz/corpus/$$t -- -runs=$(FUZZ_RUNS) -timeout=10 -max_len=512 \
-	    -print_final_stats=1 -artifact_prefix=fuzz/artifacts/$$t/ || exit 1; \
+	    -print_final_stats=1 -artifact_prefix=fuzz/artifacts/$$t/ $(FUZZ_ARGS) || exit 1; \
 	done
 
 # One target: `make fuzz-model`, `make fuzz-claim`, `make fuzz-parse`.
