@@ -12,7 +12,7 @@ use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
 
 use super::monomial::Monomial;
-use super::rational::{from_rug_rational, to_rug_rational, Q};
+use super::rational::{add_assign_q, from_rug_rational, to_rug_rational, Q};
 
 /// Evaluation met a variable with no value.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -105,7 +105,7 @@ impl Poly {
         let mut out: Vec<(TermKey, Q)> = Vec::with_capacity(terms.len());
         for (key, c) in terms {
             match out.last_mut() {
-                Some((last, sum)) if *last == key => *sum += c,
+                Some((last, sum)) if *last == key => add_assign_q(sum, &c),
                 _ => {
                     if out.last().is_some_and(|(_, sum)| sum.is_zero()) {
                         out.pop();
@@ -129,7 +129,7 @@ impl Poly {
         match self.terms.binary_search_by(|(k, _)| k.cmp(&key)) {
             Ok(at) => {
                 let existing = &mut self.terms[at].1;
-                *existing += c;
+                add_assign_q(existing, &c);
                 if existing.is_zero() {
                     self.terms.remove(at);
                 }
@@ -423,7 +423,7 @@ impl Poly {
                 let delta = -(dc * &factor_coeff);
                 match remainder.entry(TermKey(factor_monomial.mul(dm))) {
                     Entry::Occupied(mut entry) => {
-                        *entry.get_mut() += delta;
+                        add_assign_q(entry.get_mut(), &delta);
                         if entry.get().is_zero() {
                             entry.remove();
                         }
@@ -548,7 +548,10 @@ mod tests {
         // Not a multiple: the integer route says so when a leading monomial does not divide,
         // and hands over to the rational route when a coefficient does not.
         let monic = &x + c(2, 1) * &y;
-        assert_eq!((&x * &y + c(1, 1)).div_exact_in_integers(&monic), Some(None));
+        assert_eq!(
+            (&x * &y + c(1, 1)).div_exact_in_integers(&monic),
+            Some(None)
+        );
         assert_eq!((&x * &y + c(1, 1)).div_exact(&monic), None);
         let other = &product + &x;
         assert_eq!(other.div_exact_in_integers(&divisor), None);

@@ -7,7 +7,7 @@ use std::ops::{Add, AddAssign, Mul, MulAssign, Neg, Sub, SubAssign};
 use num_traits::{One, Zero};
 
 use super::poly::Poly;
-use super::rational::Q;
+use super::rational::{add_assign_q, sub_q, Q};
 
 /// `a + sign·b` by merging the two sorted term lists.
 fn merge(a: &Poly, b: &Poly, negate: bool) -> Poly {
@@ -27,9 +27,11 @@ fn merge(a: &Poly, b: &Poly, negate: bool) -> Poly {
             }
             Ordering::Equal => {
                 let sum = if negate {
-                    &x[i].1 - &y[j].1
+                    sub_q(&x[i].1, &y[j].1)
                 } else {
-                    &x[i].1 + &y[j].1
+                    let mut sum = x[i].1.clone();
+                    add_assign_q(&mut sum, &y[j].1);
+                    sum
                 };
                 if !sum.is_zero() {
                     terms.push((x[i].0.clone(), sum));
