@@ -6,7 +6,7 @@ use std::ops::{Add, AddAssign, Mul, MulAssign, Neg, Sub, SubAssign};
 
 use num_traits::{One, Zero};
 
-use super::poly::Poly;
+use super::poly::{Poly, TermKey};
 use super::rational::{add_assign_q, sub_q, Q};
 
 /// `a + sign·b` by merging the two sorted term lists.
@@ -74,6 +74,24 @@ impl Mul<&Poly> for &Poly {
     fn mul(self, other: &Poly) -> Poly {
         if self.is_zero() || other.is_zero() {
             return Poly::zero();
+        }
+        // One side a single term (a constant, a common monomial of the gcd, a power of k):
+        // multiplying every monomial by the same one keeps the canonical order (a monomial
+        // order), so no sort is needed; by 1, a copy.
+        for (single, many) in [(self, other), (other, self)] {
+            if single.term_count() == 1 {
+                let (m, c) = single.leading_term().expect("one term");
+                if m.is_one() && c.is_one() {
+                    return many.clone();
+                }
+                return Poly {
+                    terms: many
+                        .terms
+                        .iter()
+                        .map(|(key, x)| (TermKey(key.0.mul(m)), mul_q(x, c)))
+                        .collect(),
+                };
+            }
         }
         Poly::from_terms(
             self.terms()

@@ -179,7 +179,11 @@ mod tests {
     #[test]
     fn sums_of_integers_skip_the_gcd_and_agree_with_the_general_sum() {
         let big = Q::from_integer(BigInt::from(10).pow(600_u32) + 7);
-        for (a, b) in [(big.clone(), q(-3, 1)), (big.clone(), q(1, 3)), (q(1, 2), q(1, 2))] {
+        for (a, b) in [
+            (big.clone(), q(-3, 1)),
+            (big.clone(), q(1, 3)),
+            (q(1, 2), q(1, 2)),
+        ] {
             let mut sum = a.clone();
             add_assign_q(&mut sum, &b);
             assert_eq!(sum, &a + &b);
