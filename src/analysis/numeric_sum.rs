@@ -511,7 +511,9 @@ fn euler_maclaurin(
         .unwrap_or(u64::MAX / 16);
     // A head long enough that the asymptotic series reaches the target in a few dozen terms:
     // its terms shrink roughly like n/(2πK) (common practice sizing).
-    let mut head_len = (4 * digits as u64 + 64).max(8 * max_shift + 32);
+    // Saturating: a shift of 3·10^18 overflowed 8·shift (a fuzz finding); any head past
+    // MAX_HEAD is refused below.
+    let mut head_len = (4 * digits as u64 + 64).max(max_shift.saturating_mul(8).saturating_add(32));
     let constant = constant_of(rule);
     let ratio = ExactRatio::new(&constant, shifts);
     let target = Float::with_val(64, Float::i_exp(1, -(bits_for_digits(digits + 3) as i32)));
@@ -592,7 +594,7 @@ fn euler_maclaurin(
                 },
             });
         }
-        head_len *= 2;
+        head_len = head_len.saturating_mul(2);
     }
     Err(SumFailure::Unsupported(
         "the asymptotic series did not reach the requested accuracy".into(),
