@@ -421,17 +421,12 @@ impl Poly {
             // The divisor's leading term cancels the removed term exactly.
             for (dm, dc) in divisor.terms().skip(1) {
                 let delta = -(dc * &factor_coeff);
-                match remainder.entry(TermKey(factor_monomial.mul(dm))) {
-                    Entry::Occupied(mut entry) => {
-                        add_assign_q(entry.get_mut(), &delta);
-                        if entry.get().is_zero() {
-                            entry.remove();
-                        }
-                    }
-                    Entry::Vacant(entry) => {
-                        entry.insert(delta);
-                    }
-                }
+                add_to_remainder(
+                    &mut remainder,
+                    TermKey(factor_monomial.mul(dm)),
+                    delta,
+                    |sum, d| add_assign_q(sum, &d),
+                );
             }
             quotient.push((factor_monomial, factor_coeff));
         }
@@ -466,17 +461,12 @@ impl Poly {
             }
             for (dm, dc) in divisor.terms().skip(1) {
                 let delta = -(dc.numer() * &factor);
-                match remainder.entry(TermKey(factor_monomial.mul(dm))) {
-                    Entry::Occupied(mut entry) => {
-                        *entry.get_mut() += delta;
-                        if entry.get().is_zero() {
-                            entry.remove();
-                        }
-                    }
-                    Entry::Vacant(entry) => {
-                        entry.insert(delta);
-                    }
-                }
+                add_to_remainder(
+                    &mut remainder,
+                    TermKey(factor_monomial.mul(dm)),
+                    delta,
+                    |sum, d| *sum += d,
+                );
             }
             quotient.push((factor_monomial, Q::from_integer(factor)));
         }
@@ -487,6 +477,27 @@ impl Poly {
     /// leading coefficient; `gcd(0, 0) = 0`, and `gcd(c, p) = 1` for a non-zero constant `c`.
     pub fn gcd(a: &Poly, b: &Poly) -> Poly {
         super::gcd::gcd(a, b)
+    }
+}
+
+/// Adds `delta` to the remainder's coefficient of `key`, dropping the term if it cancels (the
+/// step shared by both routes of [`Poly::div_exact`]).
+fn add_to_remainder<C: Zero>(
+    remainder: &mut BTreeMap<TermKey, C>,
+    key: TermKey,
+    delta: C,
+    add: impl FnOnce(&mut C, C),
+) {
+    match remainder.entry(key) {
+        Entry::Occupied(mut entry) => {
+            add(entry.get_mut(), delta);
+            if entry.get().is_zero() {
+                entry.remove();
+            }
+        }
+        Entry::Vacant(entry) => {
+            entry.insert(delta);
+        }
     }
 }
 
