@@ -626,3 +626,79 @@ fn the_range_of_a_rate_of_degree_twenty_is_isolated() {
     assert!(total.contains("≈ 6.05344917735984"), "{total}");
     assert!(total.contains("≈ 7.94655082264015"), "{total}");
 }
+
+#[test]
+fn a_long_finite_support_with_sixty_digit_shifts_is_summed() {
+    // Fuzz finding (model/finding_5b425354…): 6,666 states whose steps carry 60-digit shifts
+    // took minutes as a walk in reduced rationals (a gcd per step on numbers that grow by 400
+    // bits a step). Binary splitting keeps the sums in integers and rounds them once.
+    let rule = "a(k)/a(k-1) = (6667 - k)(k + 123456789012345678901234567890123456789012345678901234567890)\
+                / (k (k + 98765432109876543210987654321098765432109876543210987654321)) for k >= 1";
+    let out = with_stdin(&["solve", "-"], rule);
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let stdout = text(&out.stdout);
+    // The same sums by a running product in mpmath 1.3.0 at 70 digits (computed for this test):
+    // total 4.45298338169181299179173317564e+2347, mean 3703.33331833483325759090795083,
+    // variance 1645.92592759242590059512562758.
+    for value in [
+        "4.45298338169181299179173317564e2347",
+        "3703.33331833483325759090795083",
+        "1645.92592759242590059512562758",
+    ] {
+        assert!(stdout.contains(value), "{value} in {stdout}");
+    }
+    assert!(
+        stdout.contains("sum of 6667 terms in exact integers, rounded once"),
+        "{stdout}"
+    );
+}
+
+#[test]
+fn a_rate_of_many_terms_keeps_its_power_in_the_prefactor() {
+    // Fuzz finding (model/finding_02c609bc…): the prefactor C = r^(−b)·… of a rule whose rate r
+    // is a sum of twenty names expanded r^(−4) into tens of thousands of terms (11 s). A rate
+    // of many terms now stays a power, and its value (here of a negative rate) is that of the
+    // same rule with the rate as one name.
+    let sum = "a(k)/a(k-1) = (a1+a2+a3+a4+a5+a6+a7+a8)(k+1)/(k+3) for k >= 5";
+    let values = [
+        "a1=1/2", "a2=1/3", "a3=-1/5", "a4=1/7", "a5=-2", "a6=1/11", "a7=1/13", "a8=-1/17",
+    ];
+    let mut args = vec!["solve", "-"];
+    for v in &values {
+        args.extend(["--param", v]);
+    }
+    let out = with_stdin(&args, sum);
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let long = text(&out.stdout);
+    assert!(
+        long.contains("C          a(4)·42(a1 + a2 + a3 + a4 + a5 + a6 + a7 + a8)^(−4)"),
+        "{long}"
+    );
+    // r = 1/2 + 1/3 − 1/5 + 1/7 − 2 + 1/11 + 1/13 − 1/17 = −569117/510510 (by hand).
+    let out = with_stdin(
+        &["solve", "-", "--param", "r=-569117/510510"],
+        "a(k)/a(k-1) = r (k+1)/(k+3) for k >= 5",
+    );
+    let short = text(&out.stdout);
+    assert!(short.contains("C          a(4)·42/r⁴"), "{short}");
+    let c = |s: &str| {
+        s.lines()
+            .find(|l| l.trim_start().starts_with("C ≈"))
+            .map(str::to_string)
+            .unwrap_or_default()
+    };
+    assert!(
+        !c(&long).is_empty() && c(&long) == c(&short),
+        "{long}\n{short}"
+    );
+    // The fuzz input itself answers at once.
+    let finding =
+        include_str!("../fuzz/corpus/model/finding_02c609bcf1ee798c06842715bda96c9a2642f758");
+    let out = with_stdin(&["solve", "-"], finding);
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    assert!(
+        text(&out.stdout).contains(")^(−4)"),
+        "{}",
+        text(&out.stdout)
+    );
+}

@@ -539,3 +539,39 @@ fn closed_forms_of_probabilities_with_symbolic_parameters() {
         None
     );
 }
+
+/// P(X ≤ k) for X ~ Binomial(n, 1/4), from its definition Σ_{j≤k} C(n, j) 3^(n−j) / 4^n in exact
+/// integers (the mass function of the binomial law, e.g. Feller, *An Introduction to Probability
+/// Theory*, Vol. 1, VI.2, from memory).
+fn binomial_cdf_quarter(n: u32, k: u32) -> Rational {
+    let mut sum = rug::Integer::new();
+    for j in 0..=k {
+        sum +=
+            rug::Integer::from(rug::Integer::binomial_u(n, j)) * rug::Integer::from(3).pow(n - j);
+    }
+    Rational::from((sum, rug::Integer::from(4).pow(n)))
+}
+
+#[test]
+fn binomial_laws_over_thousands_of_states() {
+    // a(k)/a(k−1) = (N + 1 − k)/(3k) gives a(k) = C(N, k) 3^(−k): the binomial law with
+    // p = 1/4. The states are summed by binary splitting; a fraction too long to keep is
+    // rounded once, and its digits must still be right.
+    let model = "param N integer >= 1\na(k)/a(k-1) = (N + 1 - k)/(3k) for k >= 1";
+    // N = 2000: the fractions are kept (an exact value of about 1,200 digits).
+    let ps = answer(model, &values(&[("N", q(2000, 1))]), &["k <= 500"]);
+    assert_exact(&ps[0], &binomial_cdf_quarter(2000, 500));
+    // N = 20000: the total is rounded once; the 30 digits agree with the exact sum (and with
+    // 0.50380014499553849792615706256943…, the same sum in Python integers over 4^20000).
+    let ps = answer(model, &values(&[("N", q(20000, 1))]), &["k <= 5000"]);
+    let v = ps[0].value.as_ref().expect("a value");
+    assert_eq!(
+        v.value,
+        rational_to_decimal(&binomial_cdf_quarter(20000, 5000), 30)
+    );
+    assert_eq!(v.value, "0.503800144995538497926157062569");
+    assert!(v.exact.is_none());
+    let bound: f64 = v.error_bound.parse().unwrap();
+    assert!(bound > 0.0 && bound < 1e-35, "{bound}");
+    assert!(v.method.contains("rounded once"), "{}", v.method);
+}

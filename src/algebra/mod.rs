@@ -43,5 +43,7 @@ mod properties;
 pub use monomial::Monomial;
 pub use poly::{Poly, UnboundVariable};
 pub use ratfunc::{EvalError, RatFunc};
-pub use rational::{from_rug_rational, is_integer, parse_q, q, to_rug_integer, to_rug_rational, Q};
+pub use rational::{
+    from_rug_integer, from_rug_rational, is_integer, parse_q, q, to_rug_integer, to_rug_rational, Q,
+};
 pub use roots::rational_roots;

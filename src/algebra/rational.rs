@@ -52,7 +52,7 @@ pub fn to_rug_rational(q: &Q) -> Rational {
 }
 
 /// A GMP integer back in `num`.
-fn from_rug_integer(n: &Integer) -> BigInt {
+pub fn from_rug_integer(n: &Integer) -> BigInt {
     let magnitude = BigInt::from_bytes_le(Sign::Plus, &n.to_digits::<u8>(Order::Lsf));
     if n.is_negative() {
         -magnitude

@@ -18,6 +18,7 @@ use super::hurwitz::hurwitz_zeta;
 use super::hypergeometric::RisingForm;
 use super::tail::{numeric_corrections_float, tail_law, FloatCorrections};
 use crate::algebra::Q;
+use crate::numeric::split::split_sums;
 use crate::numeric::{bits_for_digits, to_rug_integer, to_rug_rational, GUARD_BITS};
 
 /// A rule with every parameter substituted.
@@ -57,15 +58,33 @@ impl Bounded {
 
 #[derive(Clone, Debug, PartialEq)]
 pub enum SumMethod {
-    ExactFinite { terms: u64 },
-    TermByTerm { terms: u64 },
-    EulerMaclaurin { head: u64, expansion_terms: usize },
+    /// `rounded` when the sums were too long to reduce and were rounded once at the end.
+    ExactFinite {
+        terms: u64,
+        rounded: bool,
+    },
+    TermByTerm {
+        terms: u64,
+    },
+    EulerMaclaurin {
+        head: u64,
+        expansion_terms: usize,
+    },
 }
 
 impl SumMethod {
     pub fn describe(&self) -> String {
         match self {
-            SumMethod::ExactFinite { terms } => format!("exact rational sum of {terms} terms"),
+            SumMethod::ExactFinite {
+                terms,
+                rounded: false,
+            } => format!("exact rational sum of {terms} terms"),
+            SumMethod::ExactFinite {
+                terms,
+                rounded: true,
+            } => format!(
+                "sum of {terms} terms in exact integers, rounded once (too long a fraction to keep)"
+            ),
             SumMethod::TermByTerm { terms } => {
                 format!("{terms} terms summed directly; the rest bounded by a geometric series")
             }
@@ -95,8 +114,12 @@ pub enum SumFailure {
     Unsupported(String),
 }
 
+/// Largest size (bits) of the exact products of a finite support: 10^6 binomial steps are
+/// 4·10^7 bits and take 2.6 s.
+const MAX_SPLIT_BITS: u64 = 1 << 26;
+
 /// Largest finite support summed exactly.
-const MAX_EXACT_TERMS: u64 = 200_000;
+const MAX_EXACT_TERMS: u64 = 1_000_000;
 /// Largest number of terms summed one by one.
 const MAX_TERMS: u64 = 1_000_000;
 /// Longest head before an Euler–Maclaurin tail (parameters in the millions need more).
@@ -251,6 +274,12 @@ impl ExactRatio {
     /// R(k); `None` at a pole. Numerator and denominator are multiplied out as integers
     /// and reduced once (a reduction per factor was a third of a slowly decaying sum's time).
     fn at(&self, k: &Integer) -> Option<Rational> {
+        self.parts(k).map(Rational::from)
+    }
+
+    /// R(k) as an integer numerator and denominator, not reduced; (0, 1) at a zero of the
+    /// numerator, `None` at a pole.
+    fn parts(&self, k: &Integer) -> Option<(Integer, Integer)> {
         let mut num = self.constant.numer().clone();
         let mut den = self.constant.denom().clone();
         let mut x = Integer::new();
@@ -262,7 +291,7 @@ impl ExactRatio {
                 if *e < 0 {
                     return None;
                 }
-                return Some(Rational::new());
+                return Some((Integer::new(), Integer::from(1)));
             }
             for _ in 0..e.unsigned_abs() {
                 if *e > 0 {
@@ -274,7 +303,7 @@ impl ExactRatio {
                 }
             }
         }
-        Some(Rational::from((num, den)))
+        Some((num, den))
     }
 }
 
@@ -302,33 +331,58 @@ fn exact_finite(
         )));
     }
     let ratio = ExactRatio::new(constant, shifts);
-    let last = to_rug_integer(last);
-    let mut a = Rational::from(1);
-    let mut sums = [Rational::new(), Rational::new(), Rational::new()];
-    let mut k = to_rug_integer(base);
-    loop {
-        let kr = Rational::from(&k);
-        let mut w = Rational::from(1);
-        for s in sums.iter_mut() {
-            *s += Rational::from(&a * &w);
-            w *= &kr;
-        }
-        if k == last {
-            break;
-        }
-        k += 1;
-        let r = ratio.at(&k).ok_or_else(|| unsupported_zero(&k))?;
-        a *= r;
+    // The products grow by the size of one step a step: bound the whole before starting.
+    let last_k = to_rug_integer(last);
+    let step_bits = ratio
+        .parts(&last_k)
+        .map(|(p, q)| p.significant_bits() as u64 + q.significant_bits() as u64)
+        .unwrap_or(0)
+        .max(
+            ratio
+                .parts(&Integer::from(&last_k - 1))
+                .map_or(0, |(p, q)| {
+                    p.significant_bits() as u64 + q.significant_bits() as u64
+                }),
+        );
+    if step_bits.saturating_mul(terms) > MAX_SPLIT_BITS {
+        return Err(SumFailure::Unsupported(format!(
+            "a finite support of {terms} terms whose steps take about {step_bits} bits each is too long to sum exactly"
+        )));
     }
-    let [s0, s1, s2] = sums;
+    let split = split_sums(&to_rug_integer(base), terms, 3, |m| {
+        ratio.parts(m).ok_or_else(|| unsupported_zero(m))
+    })?;
+    let mut rounded = false;
+    let sums = split.t.into_iter().map(|t| {
+        let sum = fraction(t, &split.q, prec);
+        rounded |= sum.exact.is_none();
+        Some(sum)
+    });
+    let sums: Vec<Option<Bounded>> = sums.collect();
     Ok(MomentSums {
-        sums: [
-            Some(Bounded::exact(s0, prec)),
-            Some(Bounded::exact(s1, prec)),
-            Some(Bounded::exact(s2, prec)),
-        ],
-        method: SumMethod::ExactFinite { terms },
+        sums: sums.try_into().expect("three weights"),
+        method: SumMethod::ExactFinite { terms, rounded },
     })
+}
+
+/// Largest fraction (bits of numerator and denominator, before reduction) reduced to an exact
+/// rational: GMP's gcd at that size takes a few milliseconds, and a longer exact value is of no
+/// use in a report.
+const MAX_REDUCED_BITS: u64 = 1 << 18;
+
+/// t/q exactly when it is small enough to reduce, otherwise rounded: `t` to `prec` bits, then
+/// divided by `q` (two roundings to nearest, each within 2^−prec relative).
+pub(crate) fn fraction(t: Integer, q: &Integer, prec: u32) -> Bounded {
+    if t.significant_bits() as u64 + q.significant_bits() as u64 <= MAX_REDUCED_BITS {
+        return Bounded::exact(Rational::from((t, q.clone())), prec);
+    }
+    let value = Float::with_val(prec, &t) / q;
+    let error = Float::with_val(64, value.abs_ref()) >> (prec as i32 - 2);
+    Bounded {
+        value,
+        error,
+        exact: None,
+    }
 }
 
 /// Running sums of k^j a(k) at `prec` bits with the worst-case rounding count.

@@ -200,7 +200,7 @@ impl Term {
             // Integer powers fold into the coefficient unless they are too large to write out.
             let small = |n: &Q| n.abs() <= Q::from_integer(MAX_FOLD.into());
             match exponent.as_constant() {
-                Some(n) if n.is_integer() && small(&n) => {
+                Some(n) if n.is_integer() && small(&n) && expands_briefly(&base, &n) => {
                     let n = n.to_integer().to_i32().unwrap_or(0);
                     match base.pow(n) {
                         Some(p) => coefficient = &coefficient * &p,
@@ -266,12 +266,21 @@ impl Term {
                 Atom::Power { base, exponent } => {
                     let b = eval(&base.0)?;
                     let n = eval(&exponent.0)?;
-                    if !b.is_positive() {
-                        return None;
+                    // An integer power of any base (a rate r < 0 kept unexpanded as r^(−b)).
+                    if n.is_integer() {
+                        let n = n.to_integer().to_i32()?;
+                        if num_traits::Zero::is_zero(&b) && n < 0 {
+                            return None;
+                        }
+                        rug::ops::Pow::pow(Float::with_val(prec, to_rug_rational(&b)), n)
+                    } else {
+                        if !b.is_positive() {
+                            return None;
+                        }
+                        let b = Float::with_val(prec, to_rug_rational(&b));
+                        let n = Float::with_val(prec, to_rug_rational(&n));
+                        (b.ln() * n).exp()
                     }
-                    let b = Float::with_val(prec, to_rug_rational(&b));
-                    let n = Float::with_val(prec, to_rug_rational(&n));
-                    (b.ln() * n).exp()
                 }
                 Atom::Exp(RatKey(x)) => Float::with_val(prec, to_rug_rational(&eval(x)?)).exp(),
                 Atom::Log(RatKey(x)) => {
@@ -380,6 +389,31 @@ fn fold_gammas(
 /// Largest integer spread folded into rational factors (beyond it the products would be
 /// enormous and tell a reader nothing).
 const MAX_FOLD: i64 = 1000;
+
+/// Most terms an integer power may expand to and still fold into a coefficient: a rate with
+/// many terms, raised to the first index, stays a power (r^(−5) of a sum of twenty names
+/// would be a sum of tens of thousands of terms).
+const MAX_FOLDED_TERMS: u64 = 64;
+
+/// Whether `base^n` expands to at most `MAX_FOLDED_TERMS` terms above and below: a sum of t
+/// terms to the power |n| has at most C(t + |n| − 1, |n|) of them (monomials, r and 1/r always
+/// fold).
+fn expands_briefly(base: &RatFunc, n: &Q) -> bool {
+    let t = base.numer().term_count().max(base.denom().term_count()) as u64;
+    let n = n.abs().to_integer().to_u64().unwrap_or(u64::MAX);
+    if t <= 1 || n <= 1 {
+        return true;
+    }
+    // C(t − 1 + n, n) by the running product C(t − 1 + i, i), stopping past the limit.
+    let mut count: u64 = 1;
+    for i in 1..=n {
+        count = count.saturating_mul(t - 1 + i) / i;
+        if count > MAX_FOLDED_TERMS {
+            return false;
+        }
+    }
+    true
+}
 
 impl Expr {
     pub fn zero() -> Expr {

@@ -264,12 +264,22 @@ pub fn tail_law(form: &RisingForm, base_index: &BigInt, terms: usize) -> Tail {
         ));
         atoms.push((Atom::SqrtPi, d as i32));
     }
-    let exponent = -base_index.clone();
-    let coefficient = form
-        .constant
-        .pow(i32::try_from(exponent).unwrap_or(0))
-        .unwrap_or_else(RatFunc::one);
-    let prefactor_term = Term { coefficient, atoms }.normalized();
+    // r^(−b) as a power atom: `Term::normalized` folds it into the coefficient when it
+    // expands briefly, and keeps it a power of a rate with many terms.
+    if !base_index.is_zero() && !form.constant.is_one() {
+        atoms.push((
+            Atom::Power {
+                base: RatKey(form.constant.clone()),
+                exponent: RatKey(RatFunc::constant(Q::from_integer(-base_index.clone()))),
+            },
+            1,
+        ));
+    }
+    let prefactor_term = Term {
+        coefficient: RatFunc::one(),
+        atoms,
+    }
+    .normalized();
     let (corrections, omitted) = symbolic_corrections(form, terms);
     Tail {
         rate: form.constant.clone(),

@@ -1,7 +1,7 @@
 //! Conversions between the algebra's exact numbers (`num`) and GMP numbers (`rug`); they
 //! live in [`crate::algebra::rational`], which evaluates polynomials with GMP.
 
-pub use crate::algebra::{from_rug_rational, to_rug_integer, to_rug_rational};
+pub use crate::algebra::{from_rug_integer, from_rug_rational, to_rug_integer, to_rug_rational};
 
 #[cfg(test)]
 mod tests {

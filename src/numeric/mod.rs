@@ -8,9 +8,10 @@ pub mod convert;
 pub mod decimal;
 pub mod direct;
 pub mod logreal;
+pub mod split;
 
 pub use closed::{evaluate_closed_form, ClosedValueError};
-pub use convert::{from_rug_rational, to_rug_integer, to_rug_rational};
+pub use convert::{from_rug_integer, from_rug_rational, to_rug_integer, to_rug_rational};
 pub use decimal::{float_to_decimal, rational_to_decimal};
 pub use direct::{DirectError, DirectValue, NumericFactor, NumericRatio, RunningProduct};
 pub use logreal::LogReal;

@@ -1,6 +1,7 @@
 //! Weighted sums `Σ_{k=lo..hi} k^j a(k)` (j = 0, 1, 2, a(b) = 1) over a model whose every
 //! parameter has a value: the part before the open last piece (or the whole range, when it is
-//! finite) as an exact rational sum of the rules as written; the open tail `Σ_{k≥s}` as
+//! finite) as an exact sum of the rules as written (binary splitting, rounded once when the
+//! fraction is too long to keep); the open tail `Σ_{k≥s}` as
 //! `a(s)` times the last piece's hypergeometric series from `s`, summed in closed form where a
 //! theorem applies (geometric tails by the binomial theorem, Gauss, Chu–Vandermonde, the
 //! exponential series) and numerically with an error bound otherwise — both when both exist,
@@ -10,13 +11,17 @@ use std::collections::BTreeMap;
 
 use num_bigint::BigInt;
 use num_traits::{Signed, ToPrimitive, Zero};
-use rug::{Float, Rational};
+use rug::{Float, Integer, Rational};
 
 use crate::algebra::{RatFunc, Q};
+use crate::analysis::numeric_sum::{fraction, Bounded};
 use crate::analysis::{
     closed_sum, moment_sums, tail_law, Expr, HyperSeries, NumericRule, RisingForm, SumFailure, Term,
 };
-use crate::numeric::{bits_for_digits, to_rug_rational, GUARD_BITS};
+use crate::numeric::split::split_sums;
+use crate::numeric::{
+    bits_for_digits, from_rug_integer, to_rug_integer, to_rug_rational, GUARD_BITS,
+};
 use crate::piecewise::ModelSolution;
 use crate::solve::SupportEnd;
 
@@ -29,6 +34,16 @@ pub struct Sum {
     pub value: Float,
     pub error: Float,
     pub exact: Option<Rational>,
+}
+
+impl From<Bounded> for Sum {
+    fn from(b: Bounded) -> Sum {
+        Sum {
+            value: b.value,
+            error: b.error,
+            exact: b.exact,
+        }
+    }
 }
 
 impl Sum {
@@ -257,23 +272,25 @@ impl<'a> Support<'a> {
         }
         let (head, at_start) = self.exact_walk(&lo, &walk_to, tail_start.is_some())?;
         let terms = (&walk_to - &lo + 1u32).to_u64().unwrap_or(0);
+        let rounded = head.iter().any(|s| s.exact.is_none());
+        let walk = |n: u64| match rounded {
+            false => format!("exact rational sum of {}", terms_word(n)),
+            true => format!("sum of {} in exact integers, rounded once", terms_word(n)),
+        };
         let Some(start) = tail_start else {
             return Ok(Moments {
-                sums: head.map(|q| Some(Sum::exact(q, self.prec))),
-                method: vec![format!("exact rational sum of {}", terms_word(terms))],
+                sums: head.map(Some),
+                method: vec![walk(terms)],
                 check: None,
                 theorem: None,
             });
         };
-        let head_sums = head.map(|q| Some(Sum::exact(q, self.prec)));
+        let head_sums = head.map(Some);
         let mut method = Vec::new();
         if terms > 1 {
-            method.push(format!(
-                "exact rational sum of {} before k = {start}",
-                terms_word(terms - 1)
-            ));
+            method.push(format!("{} before k = {start}", walk(terms - 1)));
         }
-        if at_start.is_zero() {
+        if at_start.value.is_zero() {
             method.push(format!("a({start}) = 0: nothing beyond"));
             return Ok(Moments {
                 sums: head_sums,
@@ -288,7 +305,11 @@ impl<'a> Support<'a> {
             let (Some(head), Some(tail)) = (&head_sums[j], &tail.sums[j]) else {
                 return None;
             };
-            Some(head.plus(&tail.times(&at_start)))
+            let scaled = match &at_start.exact {
+                Some(q) => tail.times(q),
+                None => tail.times_inexact(&at_start.value, &at_start.error),
+            };
+            Some(head.plus(&scaled))
         });
         Ok(Moments {
             sums,
@@ -342,13 +363,15 @@ impl<'a> Support<'a> {
         })
     }
 
-    /// `Σ_{k=lo..to} k^j a(k)` exactly (the last term left out when `exclude_last`), and a(to).
+    /// `Σ_{k=lo..to} k^j a(k)` (the last term left out when `exclude_last`), and a(to): exact
+    /// integer fractions by binary splitting (`numeric::split`), reduced when small enough and
+    /// rounded once otherwise.
     fn exact_walk(
         &self,
         lo: &BigInt,
         to: &BigInt,
         exclude_last: bool,
-    ) -> Result<([Rational; 3], Rational), MassError> {
+    ) -> Result<([Sum; 3], Sum), MassError> {
         let steps = (to - &self.base).to_u64().unwrap_or(u64::MAX);
         if steps > MAX_EXACT_STEPS {
             return Err(MassError::Unsupported(format!(
@@ -356,44 +379,64 @@ impl<'a> Support<'a> {
                 to - &self.base
             )));
         }
-        let values = &self.solved.values;
-        let mut a = Rational::from(1);
-        let mut k = self.base.clone();
-        let mut sums = [Rational::new(), Rational::new(), Rational::new()];
-        loop {
-            let add = k >= *lo && !(exclude_last && k == *to);
-            if add && a != 0 {
-                let kr = Rational::from(crate::numeric::to_rug_integer(&k));
-                let mut w = a.clone();
-                for s in sums.iter_mut() {
-                    *s += &w;
-                    w *= &kr;
-                }
-            }
-            if k >= *to {
-                return Ok((sums, a));
-            }
-            k += 1;
-            if a == 0 {
-                continue;
-            }
-            let piece = self
-                .solved
-                .piece_at(&k)
-                .map(|i| &self.solved.pieces[i])
-                .ok_or_else(|| MassError::Unsupported(format!("no piece holds at k = {k}")))?;
-            let r = piece
-                .problem
-                .ratio
-                .eval_at(&Q::from_integer(k.clone()), values)
-                .map_err(|e| {
-                    MassError::Unsupported(format!("the rule cannot be evaluated: {e:?}"))
-                })?
-                .ok_or_else(|| {
-                    MassError::Unsupported(format!("the rule divides by zero at k = {k}"))
-                })?;
-            a *= to_rug_rational(&r);
+        let zero = || Sum::exact(Rational::new(), self.prec);
+        if *to < self.base {
+            return Ok((
+                [zero(), zero(), zero()],
+                Sum::exact(Rational::from(1), self.prec),
+            ));
         }
+        let start = lo.max(&self.base);
+        let step = |m: &Integer| self.step(m);
+        // a(start) as p0/q0: the product of the steps before the range.
+        let (p0, q0) = if *start > self.base {
+            let count = (start - &self.base + 1u32).to_u64().unwrap_or(u64::MAX);
+            let prefix = split_sums(&to_rug_integer(&self.base), count, 0, step)?;
+            (prefix.p, prefix.q)
+        } else {
+            (Integer::from(1), Integer::from(1))
+        };
+        let count = (to - start + 1u32).to_u64().unwrap_or(u64::MAX);
+        let mut range = split_sums(&to_rug_integer(start), count, 3, step)?;
+        if exclude_last {
+            let to = to_rug_integer(to);
+            let mut w = range.p.clone();
+            for t in range.t.iter_mut() {
+                *t -= &w;
+                w *= &to;
+            }
+        }
+        let q = q0 * range.q;
+        let sums = range
+            .t
+            .into_iter()
+            .map(|t| Sum::from(fraction(Integer::from(&p0 * &t), &q, self.prec)))
+            .collect::<Vec<_>>()
+            .try_into()
+            .expect("three weights");
+        let at_to = Sum::from(fraction(p0 * range.p, &q, self.prec));
+        Ok((sums, at_to))
+    }
+
+    /// The rule's step a(m)/a(m−1) at m, from the piece that holds m.
+    fn step(&self, m: &Integer) -> Result<(Integer, Integer), MassError> {
+        let k = from_rug_integer(m);
+        let piece = self
+            .solved
+            .piece_at(&k)
+            .map(|i| &self.solved.pieces[i])
+            .ok_or_else(|| MassError::Unsupported(format!("no piece holds at k = {k}")))?;
+        let r = piece
+            .problem
+            .ratio
+            .eval_at(&Q::from_integer(k.clone()), &self.solved.values)
+            .map_err(|e| MassError::Unsupported(format!("the rule cannot be evaluated: {e:?}")))?
+            .ok_or_else(|| {
+                MassError::Unsupported(format!("the rule divides by zero at k = {k}"))
+            })?;
+        let r = to_rug_rational(&r);
+        let (p, q) = r.into_numer_denom();
+        Ok((p, q))
     }
 
     /// `Σ_{k≥s} k^j a(k)/a(s)` under the last piece's rule: each sum in closed form where a

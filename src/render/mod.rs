@@ -43,6 +43,29 @@ use serde_json::{json, Value};
 
 use node::Node;
 
+/// Longest exact value printed in text and HTML; JSON always carries the whole value.
+const MAX_SHOWN_EXACT: usize = 100;
+
+/// An exact rational as a reader sees it: whole when short, otherwise its size (a sum over
+/// thousands of terms of a finite support can have thousands of digits).
+pub fn shown_exact(q: &str) -> String {
+    if q.chars().count() <= MAX_SHOWN_EXACT {
+        return q.to_string();
+    }
+    let digits = |s: &str| s.chars().filter(char::is_ascii_digit).count();
+    match q.split_once('/') {
+        Some((n, d)) => format!(
+            "a fraction of {} digits over {} digits, whole in --format json",
+            digits(n),
+            digits(d)
+        ),
+        None => format!(
+            "an integer of {} digits (whole in --format json)",
+            digits(q)
+        ),
+    }
+}
+
 /// A formula in both notations, as the JSON contract wants it.
 pub fn formula(node: &Node) -> Value {
     json!({ "text": text::write(node), "latex": latex::write(node) })

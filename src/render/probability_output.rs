@@ -94,10 +94,7 @@ pub fn probabilities_text(ps: &[Probability]) -> String {
             (Some(v), _) => {
                 out += &format!("  {t} = {}", v.value);
                 match &v.exact {
-                    Some(q) if q.contains('/') || q.len() < 40 => {
-                        out += &format!("  (exactly {q})")
-                    }
-                    Some(_) => out += "  (exact)",
+                    Some(q) => out += &format!("  (exactly {})", super::shown_exact(q)),
                     None => out += &format!("  (± {})", v.error_bound),
                 }
                 out += &format!("\n      {}\n", v.method);

@@ -62,7 +62,7 @@ fn requirement_text(r: &Requirement) -> String {
 fn number_text(n: &NumberReport, note: &str) -> String {
     let mut out = n.value.clone();
     match &n.exact {
-        Some(q) if *q != n.value => out += &format!(" = {q} exactly"),
+        Some(q) if *q != n.value => out += &format!(" = {} exactly", crate::render::shown_exact(q)),
         Some(_) => out += " exactly",
         None => out += &format!(" (error ≤ {})", n.error_bound),
     }
@@ -248,7 +248,7 @@ pub fn analysis_text(a: &Analysis) -> String {
         let tail = p.tail_part.as_deref().unwrap_or("∞");
         out += &format!(
             "  parts      {} (up to the last breakpoint) + {tail} (last piece), with {a_b} = 1\n",
-            p.finite_part
+            crate::render::shown_exact(&p.finite_part)
         );
     }
     if let Some((e, theorem)) = &norm.closed_form {
@@ -383,15 +383,15 @@ pub fn analysis_latex(a: &Analysis) -> String {
             &norm.value,
             &norm.value.as_ref().and_then(|v| v.exact.clone()),
         ) {
-            (_, Some(q)) => format!(
+            (_, Some(q)) if q.len() < 60 => format!(
                 "  \\sum_{{{index} \\ge {b}}} {seq_k} &= {a_b}\\,{}",
                 latex_rational(q)
             ),
-            (Some(v), None) => format!(
+            (Some(v), _) => format!(
                 "  \\sum_{{{index} \\ge {b}}} {seq_k} &\\approx {a_b}\\,{}",
                 v.value
             ),
-            (None, None) => {
+            (None, _) => {
                 format!("  \\sum_{{{index} \\ge {b}}} {seq_k} &= \\sum_{{\\text{{pieces}}}}")
             }
         },

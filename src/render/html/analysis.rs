@@ -296,7 +296,10 @@ fn number_facts(quantity: &str, n: &NumberReport) -> String {
     if let Some(exact) = &n.exact {
         facts += &fact(
             "exactly",
-            &format!("<span class=\"value\">{}</span>", escape_text(exact)),
+            &format!(
+                "<span class=\"value\">{}</span>",
+                escape_text(&crate::render::shown_exact(exact))
+            ),
         );
     }
     facts += &fact(
@@ -382,7 +385,7 @@ pub(super) fn sums(page: &ReportPage) -> String {
             "up to the last breakpoint",
             &format!(
                 "<span class=\"value\">{}</span> exactly",
-                escape_text(&parts.finite_part)
+                escape_text(&crate::render::shown_exact(&parts.finite_part))
             ),
         );
         if let Some(tail) = &parts.tail_part {
@@ -478,7 +481,12 @@ pub(super) fn probabilities(page: &ReportPage) -> String {
             Some(v) => format!(
                 "<td>{}</td><td class=\"number\">{}</td><td class=\"number\">{}</td><td>{}</td>",
                 value_span(&format!("probability-{}", i + 1), &v.value),
-                escape_text(v.exact.as_deref().unwrap_or("")),
+                escape_text(
+                    &v.exact
+                        .as_deref()
+                        .map(crate::render::shown_exact)
+                        .unwrap_or_default()
+                ),
                 escape_text(&v.error_bound),
                 escape_text(&v.method)
             ),
