@@ -702,3 +702,28 @@ fn a_rate_of_many_terms_keeps_its_power_in_the_prefactor() {
         text(&out.stdout)
     );
 }
+
+#[test]
+fn a_rule_whose_expansion_takes_too_much_work_is_refused_at_once() {
+    // Fuzz findings (parse/finding_fdbcdef5…, finding_cae8a41f… and four more): nested sums
+    // of fractions in a dozen names, each sum a gcd of polynomials of hundreds of terms, took
+    // 2–7 s before they were judged. The products of terms spent expanding a rule are now
+    // counted and bounded (200,000; the shipped examples spend at most 36).
+    let finding =
+        include_str!("../fuzz/corpus/parse/finding_fdbcdef5099745618dbc4a4deaa6b1c60f16e050");
+    let out = with_stdin(&["solve", "-"], finding);
+    assert_eq!(out.status.code(), Some(2), "{}", text(&out.stdout));
+    let err = text(&out.stderr);
+    assert!(
+        err.contains("expanding the rule takes over 200000 products of terms")
+            && err.contains("column 9")
+            && err.contains('^'),
+        "{err}"
+    );
+    // A sum of a few fractions, as researchers write them, is far inside the bound.
+    let out = with_stdin(
+        &["solve", "-"],
+        "a(k)/a(k-1) = (rho/(k+1) + rho/(k+2)) * (k+1)(k+2)/((k+4)(k+5)(k+6))",
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+}

@@ -277,6 +277,7 @@ mod tests {
             index: "k",
             sequence: "p",
             params: Vec::new(),
+            work: 0,
         };
         let form = collect_equation(lhs, rhs, &mut names)?;
         balance_rule(&form, "p", "k", 0..text.len())

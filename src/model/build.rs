@@ -277,6 +277,7 @@ pub fn build_model(text: &str) -> Result<Model, Diagnostic> {
                 index: &index,
                 sequence: &sequence,
                 params: std::mem::take(&mut discovered),
+                work: 0,
             };
             let form = collect_equation(lhs, rhs, &mut names);
             discovered = names.params;
@@ -350,6 +351,7 @@ fn rule_pieces(
             index,
             sequence,
             params: std::mem::take(discovered),
+            work: 0,
         };
         let built = match rule {
             RuleStatement::Ratio {
@@ -561,6 +563,7 @@ fn constant_value(e: &Expr) -> Result<Q, Diagnostic> {
         index: "",
         sequence: "",
         params: Vec::new(),
+        work: 0,
     };
     let form = to_product(e, &mut names)?;
     let value = if form.factors.is_empty() && names.params.is_empty() {

@@ -8,7 +8,7 @@
 
 use num_traits::ToPrimitive;
 
-use super::size::{too_large, MAX_EXPANDED_TERMS, MAX_PARAMETER_DEGREE};
+use super::size::{too_large, MAX_EXPANDED_TERMS, MAX_EXPANSION_WORK, MAX_PARAMETER_DEGREE};
 use crate::algebra::{Poly, RatFunc};
 use crate::diagnostic::{Diagnostic, Span};
 use crate::syntax::{BinOp, Expr, ExprKind};
@@ -37,6 +37,33 @@ pub struct Names<'a> {
     pub sequence: &'a str,
     /// Parameters met so far, in order of first appearance.
     pub params: Vec<String>,
+    /// Products of two terms spent so far adding and multiplying the rule's rational
+    /// functions (bounded by `MAX_EXPANSION_WORK`).
+    pub work: u64,
+}
+
+impl Names<'_> {
+    /// Charges the products of terms that `a + b` or `a · b` of rational functions takes
+    /// (each numerator by the other denominator, and the denominators), refusing the
+    /// expression once the rule has spent more than `MAX_EXPANSION_WORK`.
+    fn charge(&mut self, a: &RatFunc, b: &RatFunc, span: &Span) -> Result<(), Diagnostic> {
+        let t = |p: &Poly| p.term_count() as u64;
+        let (an, ad, bn, bd) = (t(a.numer()), t(a.denom()), t(b.numer()), t(b.denom()));
+        let cost = an * bd + bn * ad + ad * bd + an * bn;
+        self.work = self.work.saturating_add(cost);
+        if self.work > MAX_EXPANSION_WORK {
+            return Err(too_large(
+                format!(
+                    "expanding the rule takes over {MAX_EXPANSION_WORK} products of terms"
+                ),
+                span.clone(),
+            )
+            .with_help(
+                "telescope answers in seconds; write the rule as a product of factors linear in k, with the parameters' expressions simplified",
+            ));
+        }
+        Ok(())
+    }
 }
 
 impl Names<'_> {
@@ -180,6 +207,7 @@ pub fn to_product(expr: &Expr, names: &mut Names) -> Result<ProductForm, Diagnos
             BinOp::Mul | BinOp::ImplicitMul => {
                 let l = to_product(lhs, names)?;
                 let r = to_product(rhs, names)?;
+                names.charge(&l.constant, &r.constant, &span)?;
                 let product = l.times(r, 1);
                 within_size(&product.constant, names.index, &span)?;
                 Ok(product)
@@ -194,6 +222,7 @@ pub fn to_product(expr: &Expr, names: &mut Names) -> Result<ProductForm, Diagnos
                     r.divisors
                         .push((r.constant.numer().clone(), rhs.span.clone()));
                 }
+                names.charge(&l.constant, &r.constant, &span)?;
                 let quotient = l.times(r, -1);
                 within_size(&quotient.constant, names.index, &span)?;
                 Ok(quotient)
@@ -204,6 +233,7 @@ pub fn to_product(expr: &Expr, names: &mut Names) -> Result<ProductForm, Diagnos
                 let (a, b) = (l.expand(), r.expand());
                 within_size(&a, names.index, &lhs.span)?;
                 within_size(&b, names.index, &rhs.span)?;
+                names.charge(&a, &b, &span)?;
                 let sum = if *op == BinOp::Add { &a + &b } else { &a - &b };
                 within_size(&sum, names.index, &span)?;
                 let mut form = from_ratfunc(&sum, names.index, span);
@@ -330,6 +360,7 @@ fn integer_exponent(expr: &Expr, names: &mut Names) -> Result<i32, Diagnostic> {
         index: names.index,
         sequence: names.sequence,
         params: Vec::new(),
+        work: 0,
     };
     let value = to_product(expr, &mut scratch).map_err(|_| bad())?;
     if !value.factors.is_empty() {

@@ -265,6 +265,7 @@ fn sequence_term(arg: &Expr, span: Span, names: &mut Names) -> Result<LinearForm
         index: names.index,
         sequence: names.sequence,
         params: Vec::new(),
+        work: 0,
     };
     let value = to_product(arg, &mut scratch).map_err(|_| bad())?.expand();
     if !scratch.params.is_empty() {
@@ -310,6 +311,7 @@ mod tests {
             index: "k",
             sequence: "n",
             params: Vec::new(),
+            work: 0,
         };
         collect_equation(lhs, rhs, &mut names)
     }

@@ -78,6 +78,7 @@ fn bound_value(e: &Expr, declared: &[Param], what: &str) -> Result<RatFunc, Diag
         index: "",
         sequence: "",
         params: Vec::new(),
+        work: 0,
     };
     let number_expected = || {
         Diagnostic::new("expected a number here", e.span.clone()).with_help(

@@ -79,6 +79,7 @@ pub fn rate_pieces(
             index: &index,
             sequence,
             params: std::mem::take(params),
+            work: 0,
         };
         let form = to_product(s.expr, &mut names);
         *params = names.params;

@@ -200,6 +200,7 @@ fn bound(
         index: "",
         sequence: "",
         params: Vec::new(),
+        work: 0,
     };
     let form = to_product(&expr, &mut names).map_err(|d| Diagnostic {
         span: shift(d.span.clone()),
