@@ -727,3 +727,30 @@ fn a_rule_whose_expansion_takes_too_much_work_is_refused_at_once() {
     );
     assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
 }
+
+#[test]
+fn a_high_power_of_a_long_constant_is_refused_at_once() {
+    // Fuzz finding (model/finding_9f67842d…): (s + 2·10^38)^40 has 5,090-bit coefficients, and
+    // isolating the roots of its conditions ran past 5 minutes. The degree in a parameter
+    // times the coefficients' bit length is bounded (5,000); small shifts keep high powers.
+    let out = with_stdin(
+        &["solve", "-"],
+        "(s+199999999999999999999999999999999999999-4)^40\n",
+    );
+    assert_eq!(out.status.code(), Some(2), "{}", text(&out.stdout));
+    let err = text(&out.stderr);
+    assert!(
+        err.contains("degree 40 in the parameter s with 5091-bit coefficients")
+            && err.contains("column 1")
+            && err.contains('^'),
+        "{err}"
+    );
+    for rule in [
+        "(s-7)^20*3",
+        "(rho-1)^48 (k+1)/(k+2)",
+        "(s+10^20)^4/((s+3)^4)",
+    ] {
+        let out = with_stdin(&["solve", "-"], rule);
+        assert_eq!(out.status.code(), Some(0), "{rule}: {}", text(&out.stderr));
+    }
+}

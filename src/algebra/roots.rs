@@ -129,7 +129,9 @@ fn divisors(n: u64) -> Vec<u64> {
 fn search_roots(square_free: &[Q], out: &mut Vec<Q>) {
     let chain = sturm_chain(square_free);
     let lead = square_free.last().expect("non-constant").abs().to_integer();
-    let bound = cauchy_bound(square_free).to_integer();
+    let bound = cauchy_bound(square_free)
+        .to_integer()
+        .min(fujiwara_bound(square_free));
     let mut search = RootSearch {
         poly: square_free,
         chain: &chain,
@@ -241,6 +243,29 @@ fn cauchy_bound(p: &[Q]) -> Q {
     largest.floor() + Q::from_integer(BigInt::from(2))
 }
 
+/// A power of two strictly above every |root| of an integer polynomial, from Fujiwara's bound
+/// |z| ≤ 2·max_i |a_(n−i)/a_n|^(1/i) (M. Fujiwara, Tôhoku Math. J. 10, 1916; the last term
+/// there is |a_0/(2a_n)|^(1/n), smaller than the one used here). With b(a) the bit length,
+/// |a_(n−i)/a_n| < 2^(b(a_(n−i)) − b(a_n) + 1), so each term is below 2^e with
+/// e = max_i ⌈(b(a_(n−i)) − b(a_n) + 1)/i⌉ and every root below 2^(e+1). Cauchy's bound grows
+/// like the largest ratio itself: for (x + 10^38)^40 − 1 it is 10^1520, where this one is
+/// about 2^137, and the bisection's depth follows the bound's bit length.
+fn fujiwara_bound(p: &[Q]) -> BigInt {
+    let n = p.len() - 1;
+    let bits = |a: &Q| a.numer().bits();
+    let lead = bits(&p[n]);
+    let e = (1..=n)
+        .filter(|&i| !p[n - i].is_zero())
+        .map(|i| {
+            (bits(&p[n - i]) + 1)
+                .saturating_sub(lead)
+                .div_ceil(i as u64)
+        })
+        .max()
+        .unwrap_or(0);
+    BigInt::one() << (e + 1)
+}
+
 /// `p, p', -rem(p, p'), ...` until the remainder vanishes (Sturm's sequence). Each member is
 /// rescaled by a positive constant, which keeps the signs and the numbers small.
 fn sturm_chain(p: &[Q]) -> Vec<Vec<Q>> {
@@ -301,6 +326,35 @@ mod tests {
         let mut found = Vec::new();
         search_roots(&square_free, &mut found);
         found
+    }
+
+    #[test]
+    fn roots_far_from_zero_are_found_within_fujiwaras_bound() {
+        // (x + 10^38 − 1)(x + 10^38 + 1)(x − 3)(2x + 1)·(x² + 1), by construction (common
+        // practice): the Sturm search starts from Fujiwara's bound, about 2^128 here, where
+        // Cauchy's is about 10^76; every rational root must still be found.
+        let big = Q::from_integer(BigInt::from(10u32).pow(38));
+        let one = q(1, 1);
+        let roots = [
+            (-(&big - &one), 1),
+            (-(&big + &one), 1),
+            (q(3, 1), 1),
+            (q(-1, 2), 1),
+        ];
+        let mut p = expand(q(2, 1), &roots);
+        // times x² + 1
+        let mut with_quadratic = vec![Q::zero(); p.len() + 2];
+        for (i, a) in p.iter().enumerate() {
+            with_quadratic[i] += a;
+            with_quadratic[i + 2] += a;
+        }
+        p = with_quadratic;
+        let bound = fujiwara_bound(&integer_primitive(&p));
+        assert!(Q::from_integer(bound.clone()) > &big + &one);
+        assert!(bound < BigInt::one() << 140u32, "{bound}");
+        let mut expected: Vec<Q> = roots.iter().map(|(r, _)| r.clone()).collect();
+        expected.sort();
+        assert_eq!(sturm_roots(&p), expected);
     }
 
     #[test]

@@ -8,7 +8,9 @@
 
 use num_traits::ToPrimitive;
 
-use super::size::{too_large, MAX_EXPANDED_TERMS, MAX_EXPANSION_WORK, MAX_PARAMETER_DEGREE};
+use super::size::{
+    too_large, MAX_DEGREE_TIMES_BITS, MAX_EXPANDED_TERMS, MAX_EXPANSION_WORK, MAX_PARAMETER_DEGREE,
+};
 use crate::algebra::{Poly, RatFunc};
 use crate::diagnostic::{Diagnostic, Span};
 use crate::syntax::{BinOp, Expr, ExprKind};
@@ -262,15 +264,32 @@ pub fn to_product(expr: &Expr, names: &mut Names) -> Result<ProductForm, Diagnos
 /// The same check bounds the degree in each parameter (not the index) by
 /// `MAX_PARAMETER_DEGREE`: the tail corrections, moments and conditions are polynomial
 /// algebra in the parameters, and their cost grows with about the cube of that degree
-/// (`(rho-1)^48 (k+1)/(k+2)` 0.9 s, `^60` 2.1 s, `^120` 28 s).
+/// (`(rho-1)^48 (k+1)/(k+2)` 0.9 s, `^60` 2.1 s, `^120` 28 s). The degree times the
+/// coefficients' bit length is bounded too, by `MAX_DEGREE_TIMES_BITS`: the conditions
+/// isolate the real roots of such polynomials, whose cost grows with both.
 fn within_size(f: &RatFunc, index: &str, span: &Span) -> Result<(), Diagnostic> {
     for poly in [f.numer(), f.denom()] {
+        let bits = || {
+            poly.terms()
+                .map(|(_, c)| c.numer().bits() + c.denom().bits())
+                .max()
+                .unwrap_or(0)
+        };
         for name in poly.variables() {
             let degree = poly.degree_in(&name);
             if name != index && degree as u64 > MAX_PARAMETER_DEGREE {
                 return Err(too_large(
                     format!(
                         "degree {degree} in the parameter {name} (at most {MAX_PARAMETER_DEGREE})"
+                    ),
+                    span.clone(),
+                ));
+            }
+            if name != index && degree > 1 && degree as u64 * bits() > MAX_DEGREE_TIMES_BITS {
+                return Err(too_large(
+                    format!(
+                        "degree {degree} in the parameter {name} with {}-bit coefficients (degree × bits at most {MAX_DEGREE_TIMES_BITS})",
+                        bits()
                     ),
                     span.clone(),
                 ));

@@ -25,6 +25,11 @@ pub const MAX_PARAMETER_DEGREE: u64 = 48;
 /// Most monomials an expanded sum may have (`(rho + s - 1)^32` has 561 and takes 0.5 s;
 /// `(rho + s + t - 1)^20`, 1771, took 1.3 s before this limit).
 pub const MAX_EXPANDED_TERMS: u64 = 1000;
+/// Largest degree in a parameter times the bit length of the coefficients (numerator and
+/// denominator) of a parameter polynomial of degree 2 or more. The conditions isolate the
+/// real roots of such polynomials and their products; `(s + 2·10^38)^40` (5,090-bit
+/// coefficients, 203,600) ran past 5 minutes.
+pub const MAX_DEGREE_TIMES_BITS: u64 = 5_000;
 /// Most products of two terms spent adding and multiplying one rule's rational functions
 /// (`model/expr.rs`). The shipped examples spend at most 36. Over the 5,872 inputs of the
 /// parse fuzz corpus, those past 200,000 took up to 7 s and those within it at most 1.5 s
