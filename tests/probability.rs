@@ -575,3 +575,19 @@ fn binomial_laws_over_thousands_of_states() {
     assert!(bound > 0.0 && bound < 1e-35, "{bound}");
     assert!(v.method.contains("rounded once"), "{}", v.method);
 }
+
+#[test]
+fn ranges_that_start_past_the_first_term_and_past_the_support() {
+    // a(k)/a(k−1) = (4 − k)/k from a(0) = 1 gives a(k) = C(3, k) (by hand: 1, 3, 3, 1, then 0),
+    // the binomial law with n = 3, p = 1/2: P(2 ≤ k ≤ 3) = 4/8, P(k = 1) = 3/8, and nothing
+    // at or beyond k = 4 (the walk stops at the zero instead of taking later steps).
+    let ps = answer(
+        "a(k)/a(k-1) = (4 - k)/k for k >= 1",
+        &BTreeMap::new(),
+        &["2 <= k <= 3", "k = 1", "k >= 5", "k >= 4"],
+    );
+    assert_exact(&ps[0], &Rational::from((1, 2)));
+    assert_exact(&ps[1], &Rational::from((3, 8)));
+    assert_exact(&ps[2], &Rational::new());
+    assert_exact(&ps[3], &Rational::new());
+}

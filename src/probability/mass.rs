@@ -396,6 +396,10 @@ impl<'a> Support<'a> {
         } else {
             (Integer::from(1), Integer::from(1))
         };
+        if p0 == 0 {
+            // a(start) = 0: every later term is zero, and no later step is evaluated.
+            return Ok(([zero(), zero(), zero()], zero()));
+        }
         let count = (to - start + 1u32).to_u64().unwrap_or(u64::MAX);
         let mut range = split_sums(&to_rug_integer(start), count, 3, step)?;
         if exclude_last {
