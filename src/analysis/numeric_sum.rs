@@ -333,17 +333,12 @@ fn exact_finite(
     let ratio = ExactRatio::new(constant, shifts);
     // The products grow by the size of one step a step: bound the whole before starting.
     let last_k = to_rug_integer(last);
-    let step_bits = ratio
-        .parts(&last_k)
-        .map(|(p, q)| p.significant_bits() as u64 + q.significant_bits() as u64)
-        .unwrap_or(0)
-        .max(
-            ratio
-                .parts(&Integer::from(&last_k - 1))
-                .map_or(0, |(p, q)| {
-                    p.significant_bits() as u64 + q.significant_bits() as u64
-                }),
-        );
+    let bits_at = |k: &Integer| {
+        ratio.parts(k).map_or(0, |(p, q)| {
+            p.significant_bits() as u64 + q.significant_bits() as u64
+        })
+    };
+    let step_bits = bits_at(&last_k).max(bits_at(&Integer::from(&last_k - 1)));
     if step_bits.saturating_mul(terms) > MAX_SPLIT_BITS {
         return Err(SumFailure::Unsupported(format!(
             "a finite support of {terms} terms whose steps take about {step_bits} bits each is too long to sum exactly"
@@ -352,13 +347,12 @@ fn exact_finite(
     let split = split_sums(&to_rug_integer(base), terms, 3, |m| {
         ratio.parts(m).ok_or_else(|| unsupported_zero(m))
     })?;
-    let mut rounded = false;
-    let sums = split.t.into_iter().map(|t| {
-        let sum = fraction(t, &split.q, prec);
-        rounded |= sum.exact.is_none();
-        Some(sum)
-    });
-    let sums: Vec<Option<Bounded>> = sums.collect();
+    let sums: Vec<Option<Bounded>> = split
+        .t
+        .into_iter()
+        .map(|t| Some(fraction(t, &split.q, prec)))
+        .collect();
+    let rounded = sums.iter().flatten().any(|s| s.exact.is_none());
     Ok(MomentSums {
         sums: sums.try_into().expect("three weights"),
         method: SumMethod::ExactFinite { terms, rounded },
