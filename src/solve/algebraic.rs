@@ -7,9 +7,10 @@ use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
 
 use crate::algebra::Q;
-use rug::{ops::Pow, Rational};
+use rug::{ops::Pow, Integer as Whole, Rational};
+use std::cmp::Ordering;
 
-use crate::numeric::{rational_to_decimal, to_rug_rational};
+use crate::numeric::{from_rug_integer, from_rug_rational, rational_to_decimal, to_rug_rational};
 
 use super::ranges::{
     count_with_chain, derivative, evaluate, remainder, sturm_chain, trim, Extended,
@@ -192,84 +193,68 @@ impl Algebraic {
         sign(&evaluate(p, &self.low)) * sign(&evaluate(p, &self.high)) < 0
     }
 
-    /// Halves the isolating interval.
-    pub fn refine(&mut self) {
-        let mid = (&self.low + &self.high) / Q::from_integer(2.into());
-        if sign(&evaluate(&self.poly, &mid)) == sign(&evaluate(&self.poly, &self.low)) {
-            self.low = mid;
-        } else {
-            self.high = mid;
-        }
-    }
-
-    /// Refines until `q` lies outside the closed interval; then whether the number is below
-    /// `q`. Terminates because the number is irrational.
+    /// Whether the number is below `q`, leaving `q` outside the closed isolating interval.
+    /// One sign of the polynomial at `q` decides; halving then moves the end that `q` became
+    /// off it (it terminates because the number is irrational).
     pub fn is_below(&mut self, q: &Q) -> bool {
-        while self.low <= *q && *q <= self.high {
-            self.refine();
+        let x = to_rug_rational(q);
+        let mut b = Bisection::of(self);
+        let below = b.cut_at(&x);
+        while b.low == x || b.high == x {
+            b.halve();
         }
-        self.high < *q
+        b.store(self);
+        below
     }
 
-    /// ⌊x⌋ (x is irrational, so ⌈x⌉ = ⌊x⌋ + 1).
+    /// ⌊x⌋ (x is irrational, so ⌈x⌉ = ⌊x⌋ + 1), by bisection over the integers between the
+    /// ends: one sign per halving of the integer range, so an interval of width 10^500 takes
+    /// about 1,700 signs at integers.
     pub fn floor(&mut self) -> BigInt {
-        loop {
-            // The first integer above `low`: once it is separated from the number, either
-            // the number lies below it (and above `low`), or `low` has passed it.
-            let next = self.low.floor() + Q::one();
-            if self.is_below(&next) {
-                return (next - Q::one()).to_integer();
+        let mut b = Bisection::of(self);
+        let mut low = b.low.clone().floor().into_numer_denom().0;
+        let mut high = b.high.clone().ceil().into_numer_denom().0;
+        // The number lies strictly between `low` and `high`.
+        while Whole::from(&high - &low) > 1 {
+            let middle = Whole::from(&low + &high) >> 1u32;
+            if b.cut_at(&Rational::from(middle.clone())) {
+                high = middle;
+            } else {
+                low = middle;
             }
         }
+        b.store(self);
+        from_rug_integer(&low)
     }
 
     /// The value to `digits` significant digits, correctly rounded (`isolate` with
-    /// `digits` = 0 leaves it empty). Bisection in GMP rationals: the same steps as
-    /// [`Algebraic::refine`], an order of magnitude faster than `num-rational` here.
+    /// `digits` = 0 leaves it empty).
     pub fn decimal_digits(&self, digits: u32) -> String {
-        let coeffs: Vec<Rational> = self.poly.iter().map(to_rug_rational).collect();
-        let sign_at = |x: &Rational| -> i32 {
-            let mut acc = Rational::new();
-            for c in coeffs.iter().rev() {
-                acc *= x;
-                acc += c;
-            }
-            acc.cmp0() as i32
-        };
-        let (mut low, mut high) = (to_rug_rational(&self.low), to_rug_rational(&self.high));
-        let low_sign = sign_at(&low);
-        let halve = |low: &mut Rational, high: &mut Rational| {
-            let mid = Rational::from(&*low + &*high) / 2u32;
-            if sign_at(&mid) == low_sign {
-                *low = mid;
-            } else {
-                *high = mid;
-            }
-        };
+        let mut b = Bisection::of(self);
         // Off zero (the number is irrational), then narrow to a relative width of
         // 10^−(digits+2) before any decimal is formatted.
-        while low.cmp0() != high.cmp0() || low.cmp0() == std::cmp::Ordering::Equal {
-            halve(&mut low, &mut high);
+        while b.low.cmp0() != b.high.cmp0() || b.low.cmp0() == Ordering::Equal {
+            b.halve();
         }
-        let scale = Rational::from(rug::Integer::from(10).pow(digits + 2));
+        let scale = Rational::from(Whole::from(10).pow(digits + 2));
         loop {
-            let width = Rational::from(&high - &low) * &scale;
-            let size = Rational::from(low.abs_ref()).min(Rational::from(high.abs_ref()));
+            let width = Rational::from(&b.high - &b.low) * &scale;
+            let size = Rational::from(b.low.abs_ref()).min(Rational::from(b.high.abs_ref()));
             if width <= size {
                 break;
             }
-            halve(&mut low, &mut high);
+            b.halve();
         }
         // Both ends rounding alike proves the rounding of the number between them.
         for _ in 0..(4 * digits + 400) {
-            let lo = rational_to_decimal(&low, digits);
-            let hi = rational_to_decimal(&high, digits);
+            let lo = rational_to_decimal(&b.low, digits);
+            let hi = rational_to_decimal(&b.high, digits);
             if lo == hi {
                 return lo;
             }
-            halve(&mut low, &mut high);
+            b.halve();
         }
-        rational_to_decimal(&(Rational::from(&low + &high) / 2u32), digits)
+        rational_to_decimal(&(Rational::from(&b.low + &b.high) / 2u32), digits)
     }
 
     /// For a quadratic a·x² + b·x + c: (−b ± √(b² − 4ac))/(2a) with the square part of the
@@ -298,6 +283,66 @@ impl Algebraic {
             radicand,
         })
     }
+}
+
+/// The isolating interval in GMP rationals, for bisection: `num-rational` reduces every sum
+/// and product by a gcd, which dominates once the coefficients run to hundreds of digits.
+struct Bisection {
+    coefficients: Vec<Rational>,
+    low: Rational,
+    high: Rational,
+    low_sign: Ordering,
+}
+
+impl Bisection {
+    fn of(a: &Algebraic) -> Bisection {
+        let coefficients: Vec<Rational> = a.poly.iter().map(to_rug_rational).collect();
+        let low = to_rug_rational(&a.low);
+        let low_sign = sign_at(&coefficients, &low);
+        Bisection {
+            coefficients,
+            low,
+            high: to_rug_rational(&a.high),
+            low_sign,
+        }
+    }
+
+    fn store(self, a: &mut Algebraic) {
+        a.low = from_rug_rational(&self.low);
+        a.high = from_rug_rational(&self.high);
+    }
+
+    /// Whether the number is below `x`; when `x` is inside the interval, it becomes an end.
+    fn cut_at(&mut self, x: &Rational) -> bool {
+        if *x <= self.low {
+            return false;
+        }
+        if *x >= self.high {
+            return true;
+        }
+        if sign_at(&self.coefficients, x) == self.low_sign {
+            self.low = x.clone();
+            false
+        } else {
+            self.high = x.clone();
+            true
+        }
+    }
+
+    fn halve(&mut self) {
+        let middle = Rational::from(&self.low + &self.high) / 2u32;
+        self.cut_at(&middle);
+    }
+}
+
+/// The sign of the polynomial at `x` (Horner).
+fn sign_at(coefficients: &[Rational], x: &Rational) -> Ordering {
+    let mut acc = Rational::new();
+    for c in coefficients.iter().rev() {
+        acc *= x;
+        acc += c;
+    }
+    acc.cmp0()
 }
 
 /// n = s²·m with m free of the square of any prime below 10⁴ (enough for the
@@ -382,6 +427,32 @@ mod tests {
             5,
         );
         assert_eq!(roots[0].floor(), 2.into());
+    }
+
+    #[test]
+    fn a_root_near_ten_to_the_five_hundred_and_a_fraction_just_below_it() {
+        // x² − 2·10^1000 has the root √2·10^500. Its floor is the integer square root of
+        // 2·10^1000, which GMP computes independently (rug's `Integer::sqrt`).
+        let n = Whole::from(10).pow(1000) * 2u32;
+        let p = [Q::from_integer(-from_rug_integer(&n)), q(0, 1), q(1, 1)];
+        let roots = isolate(&p, &Extended::Finite(q(0, 1)), &Extended::PlusInfinity, 12);
+        assert_eq!(roots.len(), 1);
+        assert_eq!(roots[0].decimal, "1.41421356237e500");
+        let root = Whole::from(n.sqrt_ref());
+        assert_eq!(roots[0].clone().floor(), from_rug_integer(&root));
+        // ⌊√2·10^500⌋ / 10^500 lies below √2 by less than 10^−500: one sign decides, and the
+        // fraction ends up outside the isolating interval.
+        let p = [q(-2, 1), q(0, 1), q(1, 1)];
+        let mut root_two =
+            isolate(&p, &Extended::Finite(q(0, 1)), &Extended::PlusInfinity, 0).remove(0);
+        let close = Q::new(
+            from_rug_integer(&root),
+            from_rug_integer(&Whole::from(10).pow(500)),
+        );
+        assert!(!root_two.is_below(&close));
+        assert!(root_two.low > close && root_two.high > root_two.low);
+        assert!(root_two.is_below(&(close + Q::new(1.into(), 2.into()))));
+        assert_eq!(root_two.floor(), 1.into());
     }
 
     #[test]
