@@ -754,3 +754,39 @@ fn a_high_power_of_a_long_constant_is_refused_at_once() {
         assert_eq!(out.status.code(), Some(0), "{rule}: {}", text(&out.stderr));
     }
 }
+
+#[test]
+fn an_index_polynomial_with_long_coefficients_is_refused_at_once() {
+    // Fuzz finding (parse/timeout-7a88343a…): a sum of fractions with 234^801 in it expands to
+    // a degree-6 polynomial in k with 12,960-bit coefficients, whose rational roots the Sturm
+    // search took 17 s to rule out. Numeric index factors of degree 2 or more obey the same
+    // degree × bits bound (5,000) as parameter polynomials.
+    let rule = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/fuzz/corpus/parse/timeout-7a88343acd655691b71263ff36f20ff7686367af"
+    ))
+    .unwrap();
+    let out = with_stdin(&["solve", "-"], &rule);
+    assert_eq!(out.status.code(), Some(2), "{}", text(&out.stdout));
+    let err = text(&out.stderr);
+    assert!(
+        err.contains("degree 6 in k with 12960-bit coefficients")
+            && err.contains("column 18")
+            && err.contains('^'),
+        "{err}"
+    );
+    // Expanded quadratics with 60-digit roots, (k + 10^60)(k + 2·10^60) and its mirror, still
+    // split into their linear factors (common practice: Vieta's formulas).
+    for rule in [
+        "a(k)/a(k-1) = (k^2 + 3*10^60 k + 2*10^120)/(k^2 + 3k + 2)",
+        "a(k)/a(k-1) = (k^2 - 3*10^60 k + 2*10^120)/((k+1)^2)",
+    ] {
+        let out = with_stdin(&["solve", "-"], rule);
+        assert_eq!(out.status.code(), Some(0), "{rule}: {}", text(&out.stderr));
+        let shown = text(&out.stdout);
+        assert!(
+            shown.contains("1000000000000000000000000000000000000000000000000000000000000"),
+            "{rule}: {shown}"
+        );
+    }
+}

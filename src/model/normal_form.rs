@@ -7,6 +7,7 @@ use crate::diagnostic::Diagnostic;
 use crate::ratio::{LinearFactor, Orientation, Ratio};
 
 use super::expr::ProductForm;
+use super::size::{too_large, MAX_DEGREE_TIMES_BITS};
 
 /// Every index polynomial becomes linear factors: degree one directly (`p·k + q` →
 /// `p·(k + q/p)`, or `|p|·(q/|p| − k)` when p is a negative number, keeping the user's
@@ -53,6 +54,22 @@ pub fn normal_form(form: &ProductForm, index: &str) -> Result<Ratio, Diagnostic>
                     "write it as a product of factors linear in {index}, e.g. ({index} + a)({index} + b) instead of {index}^2 + (a+b){index} + ab"
                 )));
             };
+            // Its rational roots come from a Sturm root search, whose cost grows with the
+            // degree and the coefficients' bit length together (a degree-6 factor with
+            // 13,000-bit coefficients took 17 s): the same bound as for parameters.
+            let bits = numeric
+                .iter()
+                .map(|c| c.numer().bits() + c.denom().bits())
+                .max()
+                .unwrap_or(0);
+            if degree as u64 * bits > MAX_DEGREE_TIMES_BITS {
+                return Err(too_large(
+                    format!(
+                        "degree {degree} in {index} with {bits}-bit coefficients (degree × bits at most {MAX_DEGREE_TIMES_BITS})"
+                    ),
+                    factor.span.clone(),
+                ));
+            }
             let (roots, cofactor) = rational_roots(&numeric);
             if cofactor.len() > 1 {
                 let rest = Poly::from_coeffs_in(
