@@ -2,6 +2,19 @@
 
 use std::cmp::Ordering;
 use std::fmt;
+use std::sync::Arc;
+
+/// A variable's name: shared, so that copying a monomial copies pointers, not strings.
+type Name = Arc<str>;
+
+/// Name order; the same allocation (a name copied along a computation) is equal at once.
+fn cmp_names(a: &Name, b: &Name) -> Ordering {
+    if Arc::ptr_eq(a, b) {
+        Ordering::Equal
+    } else {
+        a.cmp(b)
+    }
+}
 
 /// A power product such as `rho^2*k`: `(name, exponent)` pairs sorted by name, every exponent
 /// positive, so that equal products are equal values. The empty product is `1`.
@@ -9,7 +22,7 @@ use std::fmt;
 /// The derived `Ord` is only a storage order (by name, then exponent); the order in which a
 /// polynomial lists its terms is [`Monomial::canonical_cmp`].
 #[derive(Clone, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
-pub struct Monomial(Vec<(String, u32)>);
+pub struct Monomial(Vec<(Name, u32)>);
 
 impl Monomial {
     pub fn one() -> Self {
@@ -17,7 +30,7 @@ impl Monomial {
     }
 
     pub fn var(name: &str) -> Self {
-        Monomial(vec![(name.to_string(), 1)])
+        Monomial(vec![(Name::from(name), 1)])
     }
 
     /// Builds a product from `(name, exponent)` pairs in any order; repeated names multiply,
@@ -27,7 +40,7 @@ impl Monomial {
             .into_iter()
             .filter(|(_, e)| *e > 0)
             .fold(Monomial::one(), |acc, (name, e)| {
-                acc.mul(&Monomial(vec![(name.as_ref().to_string(), e)]))
+                acc.mul(&Monomial(vec![(Name::from(name.as_ref()), e)]))
             })
     }
 
@@ -43,13 +56,13 @@ impl Monomial {
     pub fn degree_in(&self, var: &str) -> u32 {
         self.0
             .iter()
-            .find(|(name, _)| name == var)
+            .find(|(name, _)| &**name == var)
             .map_or(0, |(_, e)| *e)
     }
 
     /// `(name, exponent)` pairs sorted by name.
     pub fn factors(&self) -> impl Iterator<Item = (&str, u32)> {
-        self.0.iter().map(|(name, e)| (name.as_str(), *e))
+        self.0.iter().map(|(name, e)| (&**name, *e))
     }
 
     pub fn mul(&self, other: &Monomial) -> Monomial {
@@ -57,7 +70,7 @@ impl Monomial {
         let (mut i, mut j) = (0, 0);
         while i < self.0.len() && j < other.0.len() {
             let (a, b) = (&self.0[i], &other.0[j]);
-            match a.0.cmp(&b.0) {
+            match cmp_names(&a.0, &b.0) {
                 Ordering::Less => {
                     out.push(a.clone());
                     i += 1;
@@ -108,7 +121,7 @@ impl Monomial {
     /// The same product with `var` removed, and the exponent it had.
     pub fn split_var(&self, var: &str) -> (Monomial, u32) {
         let exponent = self.degree_in(var);
-        let rest = self.0.iter().filter(|(name, _)| name != var).cloned();
+        let rest = self.0.iter().filter(|(name, _)| &**name != var).cloned();
         (Monomial(rest.collect()), exponent)
     }
 
@@ -125,14 +138,14 @@ impl Monomial {
 
     /// Lexicographic part of [`Monomial::canonical_cmp`]: at the first variable (by name)
     /// whose exponents differ, the larger exponent is listed first.
-    fn lex_cmp(&self, other: &Monomial) -> Ordering {
+    pub(crate) fn lex_cmp(&self, other: &Monomial) -> Ordering {
         let (mut i, mut j) = (0, 0);
         loop {
             match (self.0.get(i), other.0.get(j)) {
                 (None, None) => return Ordering::Equal,
                 (None, Some(_)) => return Ordering::Greater,
                 (Some(_), None) => return Ordering::Less,
-                (Some((a, ea)), Some((b, eb))) => match a.cmp(b) {
+                (Some((a, ea)), Some((b, eb))) => match cmp_names(a, b) {
                     Ordering::Less => return Ordering::Less,
                     Ordering::Greater => return Ordering::Greater,
                     Ordering::Equal => {

@@ -4,7 +4,8 @@
 
 use std::cmp::Ordering;
 use std::collections::btree_map::Entry;
-use std::collections::{BTreeMap, BTreeSet};
+use std::collections::hash_map::Entry as HashEntry;
+use std::collections::{BTreeMap, BTreeSet, HashMap};
 use std::fmt;
 
 use num_bigint::BigInt;
@@ -118,6 +119,30 @@ impl Poly {
             out.pop();
         }
         Poly { terms: out }
+    }
+
+    /// [`Poly::from_terms`] for many pairs with many repeats (the products of a
+    /// multiplication): equal monomials are summed in a hash map first, and only the distinct
+    /// ones are sorted, by total degree computed once each.
+    pub(crate) fn from_many_terms(terms: impl IntoIterator<Item = (Monomial, Q)>) -> Self {
+        let mut sums: HashMap<Monomial, Q> = HashMap::new();
+        for (m, c) in terms {
+            match sums.entry(m) {
+                HashEntry::Occupied(mut sum) => add_assign_q(sum.get_mut(), &c),
+                HashEntry::Vacant(slot) => {
+                    slot.insert(c);
+                }
+            }
+        }
+        let mut keyed: Vec<(u32, Monomial, Q)> = sums
+            .into_iter()
+            .filter(|(_, c)| !c.is_zero())
+            .map(|(m, c)| (m.degree(), m, c))
+            .collect();
+        keyed.sort_unstable_by(|x, y| y.0.cmp(&x.0).then_with(|| x.1.lex_cmp(&y.1)));
+        Poly {
+            terms: keyed.into_iter().map(|(_, m, c)| (TermKey(m), c)).collect(),
+        }
     }
 
     /// Adds `c * m` in place, dropping the term if it cancels.

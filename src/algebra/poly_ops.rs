@@ -93,10 +93,14 @@ impl Mul<&Poly> for &Poly {
                 };
             }
         }
-        Poly::from_terms(
-            self.terms()
-                .flat_map(|(a, ca)| other.terms().map(move |(b, cb)| (a.mul(b), mul_q(ca, cb)))),
-        )
+        let products = self
+            .terms()
+            .flat_map(|(a, ca)| other.terms().map(move |(b, cb)| (a.mul(b), mul_q(ca, cb))));
+        if self.term_count() * other.term_count() > 16 {
+            Poly::from_many_terms(products)
+        } else {
+            Poly::from_terms(products)
+        }
     }
 }
 
