@@ -790,3 +790,24 @@ fn an_index_polynomial_with_long_coefficients_is_refused_at_once() {
         );
     }
 }
+
+#[test]
+fn a_twentieth_power_against_an_eighth_places_its_cuts() {
+    // Found by hand (sixth session): the convergence cut of (s + 1000)^20/(s + 2)^8 is a root
+    // of (s + 1000)^20 − (s + 2)^8; isolating it converted the whole Sturm chain to GMP at
+    // every bisection point (5.8 s). Both real roots against mpmath 1.3.0
+    // (`findroot((s+1000)**20 - (s+2)**8, x0)` at 50 digits, x0 = −984.26 and −1015.9):
+    // −984.26411002183057854430257001642… and −1015.9369193449807499013499393921…
+    let out = with_stdin(
+        &["solve", "-"],
+        "a(k)/a(k-1) = (s+10^3)^20/((s+2)^8) * (k+1)/(k+3)   for k >= 1\n",
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    for root in [
+        "≈ -984.264110021830578544302570016",
+        "≈ -1015.93691934498074990134993939",
+    ] {
+        assert!(shown.contains(root), "{root}: {shown}");
+    }
+}

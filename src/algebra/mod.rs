@@ -40,6 +40,7 @@ mod roots;
 #[cfg(test)]
 mod properties;
 
+pub(crate) use dense::gcd as univariate_gcd;
 pub use monomial::Monomial;
 pub use poly::{Poly, UnboundVariable};
 pub use ratfunc::{EvalError, RatFunc};

@@ -6,15 +6,13 @@ use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
 
-use crate::algebra::Q;
+use crate::algebra::{univariate_gcd, Q};
 use rug::{ops::Pow, Integer as Whole, Rational};
 use std::cmp::Ordering;
 
 use crate::numeric::{from_rug_integer, from_rug_rational, rational_to_decimal, to_rug_rational};
 
-use super::ranges::{
-    count_with_chain, derivative, evaluate, remainder, sturm_chain, trim, Extended,
-};
+use super::ranges::{derivative, evaluate, sturm_chain, trim, Extended};
 
 /// `rational + coefficient·√radicand`, radicand > 1 and free of small square factors.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -46,18 +44,6 @@ fn monic(p: Vec<Q>) -> Vec<Q> {
     }
 }
 
-/// gcd of two univariate polynomials (Euclid), monic.
-fn gcd(a: &[Q], b: &[Q]) -> Vec<Q> {
-    let (mut a, mut b) = (trim(a.to_vec()), trim(b.to_vec()));
-    while !b.is_empty() {
-        // Monic remainders keep the coefficients from growing along the sequence.
-        let r = monic(remainder(&a, &b));
-        a = b;
-        b = r;
-    }
-    monic(a)
-}
-
 /// a / b for b dividing a exactly.
 fn quotient(a: &[Q], b: &[Q]) -> Vec<Q> {
     let mut r = trim(a.to_vec());
@@ -84,7 +70,9 @@ pub fn squarefree(p: &[Q]) -> Vec<Q> {
     if p.len() <= 2 {
         return p;
     }
-    let g = gcd(&p, &derivative(&p));
+    // The primitive remainder sequence in GMP integers (`algebra::dense`): Euclid over Q in
+    // `num` was a third of the time on conditions with 60-digit coefficients.
+    let g = monic(univariate_gcd(&p, &derivative(&p)));
     if g.len() <= 1 {
         p
     } else {
@@ -111,26 +99,42 @@ pub fn isolate(p: &[Q], a: &Extended, b: &Extended, digits: u32) -> Vec<Algebrai
     }
     let bound = root_bound(p);
     let finite = |x: &Extended, fallback: Q| match x {
-        Extended::Finite(v) => v.clone(),
-        _ => fallback,
+        Extended::Finite(v) => to_rug_rational(v),
+        _ => to_rug_rational(&fallback),
     };
     let (low, high) = (finite(a, -bound.clone()), finite(b, bound));
-    let chain = sturm_chain(p);
+    // The chain in GMP rationals once; each bisection point is counted once and its count
+    // kept with the interval (counting converted every coefficient at every point, which was
+    // most of the time on conditions with long coefficients).
+    let chain: Vec<Vec<Rational>> = sturm_chain(p)
+        .iter()
+        .map(|q| q.iter().map(to_rug_rational).collect())
+        .collect();
+    let variations = |x: &Rational| -> usize {
+        let signs: Vec<Ordering> = chain
+            .iter()
+            .map(|q| sign_at(q, x))
+            .filter(|s| *s != Ordering::Equal)
+            .collect();
+        signs.windows(2).filter(|w| w[0] != w[1]).count()
+    };
     let mut out = Vec::new();
-    let mut stack = vec![(low, high)];
-    while let Some((lo, hi)) = stack.pop() {
-        let count = count_with_chain(
-            &chain,
-            &Extended::Finite(lo.clone()),
-            &Extended::Finite(hi.clone()),
-        );
-        match count {
+    let (v_low, v_high) = (variations(&low), variations(&high));
+    let mut stack = vec![(low, v_low, high, v_high)];
+    while let Some((lo, v_lo, hi, v_hi)) = stack.pop() {
+        match v_lo.saturating_sub(v_hi) {
             0 => {}
-            1 => out.push(Algebraic::new(p.to_vec(), lo, hi, digits)),
+            1 => out.push(Algebraic::new(
+                p.to_vec(),
+                from_rug_rational(&lo),
+                from_rug_rational(&hi),
+                digits,
+            )),
             _ => {
-                let mid = (&lo + &hi) / Q::from_integer(2.into());
-                stack.push((mid.clone(), hi));
-                stack.push((lo, mid));
+                let mid = Rational::from(&lo + &hi) / 2u32;
+                let v_mid = variations(&mid);
+                stack.push((mid.clone(), v_mid, hi, v_hi));
+                stack.push((lo, v_lo, mid, v_mid));
             }
         }
     }
