@@ -811,3 +811,19 @@ fn a_twentieth_power_against_an_eighth_places_its_cuts() {
         assert!(shown.contains(root), "{root}: {shown}");
     }
 }
+
+#[test]
+fn a_high_power_keeps_its_gamma_value_in_the_tail_prefactor() {
+    // Fuzz finding (model/timeout-bda6beda…): p(k)/p(k−1) = (k + 662)^110 has Γ(664)^(−110) in
+    // its tail prefactor, which was folded into a fraction of 176,000 digits (over 10 s in the
+    // instrumented fuzz build). A constant Γ power past 20,000 bits now stays a power.
+    // C = 2^55 π^55 / Γ(664)^110 by mpmath 1.3.0 at 40 digits: 8.42733014489433465519615363938e-174256.
+    let out = with_stdin(&["solve", "-"], "p(k)/p(k-1) = (k+662)^110\n");
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    assert!(
+        shown.contains("p(1)·36028797018963968π⁵⁵/Γ(664)¹¹⁰")
+            && shown.contains("C ≈        8.42733014489433465519615363938e-174256"),
+        "{shown}"
+    );
+}

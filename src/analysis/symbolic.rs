@@ -367,7 +367,11 @@ fn fold_gammas(
             {
                 let n = c.to_integer().to_i64().unwrap_or(1);
                 let factorial = gamma_shift_ratio(&RatFunc::one(), n - 1).expect("positive");
-                *coefficient = &*coefficient * &factorial.pow(total).expect("non-zero");
+                if folds_briefly(&factorial, total) {
+                    *coefficient = &*coefficient * &factorial.pow(total).expect("non-zero");
+                } else {
+                    out.push((base, total, false));
+                }
             }
             // Γ(n + 1/2) = √π·(1/2)_n (DLMF 5.4.6 with DLMF 5.5.1)
             Some(c)
@@ -377,8 +381,12 @@ fn fold_gammas(
             {
                 let n = (&c - &half).to_integer().to_i64().unwrap_or(0);
                 let rising = gamma_shift_ratio(&RatFunc::constant(half), n).expect("positive");
-                *coefficient = &*coefficient * &rising.pow(total).expect("non-zero");
-                out.push((base, total, true));
+                if folds_briefly(&rising, total) {
+                    *coefficient = &*coefficient * &rising.pow(total).expect("non-zero");
+                    out.push((base, total, true));
+                } else {
+                    out.push((base, total, false));
+                }
             }
             _ => out.push((base, total, false)),
         }
@@ -389,6 +397,24 @@ fn fold_gammas(
 /// Largest integer spread folded into rational factors (beyond it the products would be
 /// enormous and tell a reader nothing).
 const MAX_FOLD: i64 = 1000;
+
+/// Most bits a constant Γ value raised to its exponent may take and still fold into a
+/// number: `p(k)/p(k-1) = (k + 662)^110` has Γ(664)^(−110) in its tail prefactor, a fraction
+/// of 176,000 digits that took seconds to build and to evaluate. Beyond it the Γ value stays
+/// a power (the same size as `model::size::MAX_NUMBER_BITS`).
+const MAX_FOLDED_BITS: u64 = 20_000;
+
+/// Whether the constant `value^exponent` stays within `MAX_FOLDED_BITS` (a value that is not
+/// a constant is judged by its terms elsewhere).
+fn folds_briefly(value: &RatFunc, exponent: i32) -> bool {
+    match value.as_constant() {
+        Some(c) => {
+            (c.numer().bits() + c.denom().bits()) * u64::from(exponent.unsigned_abs())
+                <= MAX_FOLDED_BITS
+        }
+        None => true,
+    }
+}
 
 /// Most terms an integer power may expand to and still fold into a coefficient: a rate with
 /// many terms, raised to the first index, stays a power (r^(−5) of a sum of twenty names
