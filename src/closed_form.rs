@@ -6,7 +6,7 @@ use std::collections::BTreeMap;
 
 use num_bigint::BigInt;
 
-use crate::algebra::{EvalError, RatFunc, Q};
+use crate::algebra::{from_rug_rational, to_rug_integer, to_rug_rational, EvalError, RatFunc, Q};
 
 /// `k_coeff · k + constant`, the argument of every factor.
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
@@ -44,9 +44,21 @@ impl Affine {
     }
 
     /// The exact value at index `k`.
+    /// The value at `k`, in GMP: `num`'s binary gcd on the long shifts of some rules (17,000
+    /// bits) took a check seconds for a few dozen values.
     pub fn eval(&self, k: &BigInt, params: &BTreeMap<String, Q>) -> Result<Q, EvalError> {
-        let c = self.constant.eval(params)?;
-        Ok(c + Q::from_integer(k * BigInt::from(self.k_coeff)))
+        let part = |p: &crate::algebra::Poly| {
+            p.eval(params)
+                .map(|v| to_rug_rational(&v))
+                .map_err(|missing| EvalError::Unbound(missing.0))
+        };
+        let (numerator, denominator) = (part(self.constant.numer())?, part(self.constant.denom())?);
+        if denominator == 0 {
+            return Err(EvalError::DivisionByZero);
+        }
+        let mut value = numerator / denominator;
+        value += to_rug_integer(k) * self.k_coeff;
+        Ok(from_rug_rational(&value))
     }
 
     pub fn shifted(&self, by: &RatFunc) -> Affine {

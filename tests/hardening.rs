@@ -827,3 +827,29 @@ fn a_high_power_keeps_its_gamma_value_in_the_tail_prefactor() {
         "{shown}"
     );
 }
+
+#[test]
+fn a_claim_against_a_rule_with_a_five_thousand_digit_constant_is_checked() {
+    // Slow claim input (claim/slow-unit-1026f550…, found in the working corpus): a rule whose
+    // rate is a 5,300-digit fraction. The exact direct walk grew to a million digits in 200
+    // steps, and each closed-form value added long shifts in `num` rationals (2 s in release,
+    // over 10 s instrumented). The walk now stops past 2^16 bits and shifts are added in GMP
+    // (0.3 s). The verdict and the first difference are the same as before the change (a
+    // regression pin from the earlier code, not an outside value).
+    let rule = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/fuzz/corpus/claim/slow-unit-1026f550c45c272316d278ab2c3653a988bebb31"
+    );
+    let out = Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(["check", rule, "--claim", "a(1) k"])
+        .output()
+        .expect("binary runs");
+    // Exit 1: the claim is refuted.
+    assert_eq!(out.status.code(), Some(1), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    assert!(
+        shown.contains("verdict      REFUTED")
+            && shown.contains("truth -8.35347281101771298445337e5272"),
+        "{shown}"
+    );
+}
