@@ -853,3 +853,81 @@ fn a_claim_against_a_rule_with_a_five_thousand_digit_constant_is_checked() {
         "{shown}"
     );
 }
+
+#[test]
+fn far_apart_gamma_values_with_a_parameter_fold_in_clusters() {
+    // Fuzz finding (model/timeout-5a2b2c19…): for `(k−1)/(k + A/2) for k > 662` the sums
+    // folded Γ(A/2 + 663) against Γ(A/2 + 2) into a rising product of degree 661 in A, which
+    // took 406 s. Symbolic Gamma values fold only within a spread of degree 48; nearby ones
+    // still cancel. At A = 10 the total is ₂F₁(662, 1; 668; 1) = 133.4 and the mean
+    // (662·F + (662/668)·₂F₁(663, 2; 669; 1))/F = 827.5 (mpmath 1.3.0 `hyp2f1`, Gauss's
+    // theorem at z = 1, DLMF 15.4.20; the mean by DLMF 15.5.1 for the derivative).
+    let rule = "a(k)/a(k-1) = (k-1)/(k+A/2) for k >662\n";
+    let out = with_stdin(&["solve", "-"], rule);
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    assert!(
+        shown.contains("a(662) · (A + 1324)/A   by Gauss's theorem"),
+        "{shown}"
+    );
+    let out = with_stdin(&["solve", "-", "--param", "A=10"], rule);
+    let shown = text(&out.stdout);
+    assert!(
+        shown.contains("value      133.400000000000000000000000000 = 667/5 exactly")
+            && shown.contains("value      827.500000000000000000000000000 = 1655/2 exactly"),
+        "{shown}"
+    );
+}
+
+#[test]
+fn a_rate_of_nine_hundred_nine_to_the_thousand_does_not_overflow_the_stack() {
+    // Fuzz finding (model/slow-unit-1e2c7e2c…): the rate ρ·909^1000. Its convergence cut
+    // ρ = 1/909^1000 was sought by a recursive bisection 19,000 levels deep, which aborted
+    // `solve` with a stack overflow (10 s on a larger stack). Degree 1 and 2 take their roots
+    // in closed form, and the bisection keeps its intervals on a heap stack.
+    let out = with_stdin(&["solve", "-"], "rho(909^1000 )\n");
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    assert!(shown.contains("tail law"), "{shown}");
+}
+
+#[test]
+fn a_claim_with_an_exponent_of_minus_two_to_the_sixty_three_is_evaluated() {
+    // Fuzz finding (claim/crash-780d6851…): the claim (−5)^(−8)^k reaches the exponent
+    // (−8)^21 = −2^63 = i64::MIN, whose `abs` overflowed (a panic with overflow checks, and a
+    // wrong exponent 0 without them). Exponents past 10^9 were also called "not a whole
+    // number"; any whole exponent now gets its sign from its parity. This test binary has
+    // overflow checks on.
+    let out = with_stdin(
+        &["check", "-", "--claim", "(-5)^(-8)^k"],
+        "a(k)/a(k-1) = 1/2 for k >= 20\n",
+    );
+    assert_eq!(out.status.code(), Some(1), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    assert!(
+        shown.contains("verdict      REFUTED") && !shown.contains("not a whole number"),
+        "{shown}"
+    );
+}
+
+#[test]
+fn the_diagnosis_of_a_claim_in_ten_names_leaves_a_huge_growth_unread() {
+    // Fuzz finding (claim/timeout-d3f9389c…): a balance equation in ten names. Diagnosing the
+    // refuted claim a(1)·k read the growth of a quotient of 1,118 terms, a multivariate gcd of
+    // leading coefficients: 7 s. Quotients past 400 terms are left unread; the rate, read from
+    // the first quotient, is still named.
+    let rule = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/fuzz/corpus/claim/timeout-d3f9389cfe967ac91bb30025010f3e004ef99778"
+    );
+    let out = Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(["check", rule, "--claim", "a(1) k"])
+        .output()
+        .expect("binary runs");
+    assert_eq!(out.status.code(), Some(1), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    assert!(
+        shown.contains("verdict      REFUTED") && shown.contains("wrong geometric rate"),
+        "{shown}"
+    );
+}

@@ -138,9 +138,43 @@ fn search_roots(square_free: &[Q], out: &mut Vec<Q>) {
         lead: &lead,
         out,
     };
+    if let Some(roots) = low_degree_roots(square_free) {
+        search.out.extend(roots);
+        return;
+    }
     let (low, high) = (Dyadic::integer(-bound.clone()), Dyadic::integer(bound));
     let (v_low, v_high) = (search.variations(&low), search.variations(&high));
     search.bisect(low, v_low, high, v_high);
+}
+
+/// The rational roots of a square-free integer polynomial of degree 1 or 2, ascending, in
+/// closed form: −b/a, or (−b ± √D)/(2a) when the discriminant D = b² − 4ac is a perfect
+/// square (no rational root otherwise). The bisection would need as many levels as the
+/// roots have bits: ρ = 1/909^1000 took 19,000 levels.
+fn low_degree_roots(poly: &[Q]) -> Option<Vec<Q>> {
+    match poly {
+        [b, a] => Some(vec![-b / a]),
+        [c, b, a] => {
+            let (a, b, c) = (a.to_integer(), b.to_integer(), c.to_integer());
+            let discriminant: BigInt = &b * &b - BigInt::from(4) * &a * &c;
+            if discriminant.is_negative() {
+                return Some(Vec::new());
+            }
+            let root = discriminant.sqrt();
+            if &root * &root != discriminant {
+                return Some(Vec::new());
+            }
+            let two_a = Q::from_integer(BigInt::from(2) * &a);
+            let mut roots = vec![
+                Q::from_integer(-&b - &root) / &two_a,
+                Q::from_integer(-&b + &root) / &two_a,
+            ];
+            roots.sort();
+            roots.dedup();
+            Some(roots)
+        }
+        _ => None,
+    }
 }
 
 /// `num / 2^exp`: the bisection's points, kept as integers so that no step normalises a
@@ -204,30 +238,36 @@ impl RootSearch<'_> {
         signs.windows(2).filter(|pair| pair[0] != pair[1]).count()
     }
 
-    /// Looks for rational roots in `(low, high]`, given the chain's variations at both ends.
+    /// Looks for rational roots in `(low, high]`, given the chain's variations at both ends,
+    /// and appends them in ascending order. The intervals wait on a stack rather than in
+    /// recursive calls: a root near 10^−3000 is 20,000 halvings deep.
     fn bisect(&mut self, low: Dyadic, v_low: usize, high: Dyadic, v_high: usize) {
-        if v_low == v_high {
-            return;
-        }
-        // Every rational root is a multiple of 1/L; an interval shorter than 1/L holds at
-        // most one such multiple, namely floor(L·high)/L if it exceeds low.
-        let scaled_high = (self.lead * &high.num).div_floor(&high.denominator());
-        // floor(L·high) ≤ L·low, both sides over 2^low.exp.
-        if (&scaled_high << low.exp) <= self.lead * &low.num {
-            return;
-        }
-        let exp = low.exp.max(high.exp);
-        if (high.over(exp) - low.over(exp)) * self.lead < (BigInt::one() << exp) {
-            let candidate = Q::new(scaled_high, self.lead.clone());
-            if sign_at(self.poly, &candidate) == 0 {
-                self.out.push(candidate);
+        let mut pending = vec![(low, v_low, high, v_high)];
+        while let Some((low, v_low, high, v_high)) = pending.pop() {
+            if v_low == v_high {
+                continue;
             }
-            return;
+            // Every rational root is a multiple of 1/L; an interval shorter than 1/L holds
+            // at most one such multiple, namely floor(L·high)/L if it exceeds low.
+            let scaled_high = (self.lead * &high.num).div_floor(&high.denominator());
+            // floor(L·high) ≤ L·low, both sides over 2^low.exp.
+            if (&scaled_high << low.exp) <= self.lead * &low.num {
+                continue;
+            }
+            let exp = low.exp.max(high.exp);
+            if (high.over(exp) - low.over(exp)) * self.lead < (BigInt::one() << exp) {
+                let candidate = Q::new(scaled_high, self.lead.clone());
+                if sign_at(self.poly, &candidate) == 0 {
+                    self.out.push(candidate);
+                }
+                continue;
+            }
+            let middle = low.midpoint(&high);
+            let v_middle = self.variations(&middle);
+            // The upper half waits below the lower one, so roots come out ascending.
+            pending.push((middle.clone(), v_middle, high, v_high));
+            pending.push((low, v_low, middle, v_middle));
         }
-        let middle = low.midpoint(&high);
-        let v_middle = self.variations(&middle);
-        self.bisect(low, v_low, middle.clone(), v_middle);
-        self.bisect(middle, v_middle, high, v_high);
     }
 }
 
@@ -326,6 +366,53 @@ mod tests {
         let mut found = Vec::new();
         search_roots(&square_free, &mut found);
         found
+    }
+
+    /// The Sturm bisection alone, without the closed form for low degrees.
+    fn bisection_roots(poly: &[Q]) -> Vec<Q> {
+        let square_free = integer_primitive(&divide(poly, &gcd(poly, &derivative(poly))).0);
+        let chain = sturm_chain(&square_free);
+        let lead = square_free.last().unwrap().abs().to_integer();
+        let bound = cauchy_bound(&square_free).to_integer();
+        let mut found = Vec::new();
+        let mut search = RootSearch {
+            poly: &square_free,
+            chain: &chain,
+            lead: &lead,
+            out: &mut found,
+        };
+        let (low, high) = (Dyadic::integer(-bound.clone()), Dyadic::integer(bound));
+        let (v_low, v_high) = (search.variations(&low), search.variations(&high));
+        search.bisect(low, v_low, high, v_high);
+        found
+    }
+
+    #[test]
+    fn low_degrees_in_closed_form_agree_with_the_bisection() {
+        // By construction: (7x − 3)(x + 5/2), (x − 10^30 − 1)(3x + 1), 4x² − 9 = (2x − 3)(2x + 3),
+        // x² − 2 and x² + x + 1 (no rational roots), 12x − 5.
+        let big = q(1, 1) + Q::from_integer(num_traits::pow(BigInt::from(10), 30));
+        let cases = [
+            multiply(&ints(&[-3, 7]), &[q(5, 2), q(1, 1)]),
+            multiply(&[-big, q(1, 1)], &ints(&[1, 3])),
+            ints(&[-9, 0, 4]),
+            ints(&[-2, 0, 1]),
+            ints(&[1, 1, 1]),
+            ints(&[-5, 12]),
+        ];
+        for poly in cases {
+            let square_free = integer_primitive(&poly);
+            assert_eq!(
+                low_degree_roots(&square_free).unwrap(),
+                bisection_roots(&poly),
+                "{poly:?}"
+            );
+        }
+        // ρ = ±1/909^1000: 19,000 halvings deep for the bisection, at once in closed form.
+        let c = Q::from_integer(num_traits::pow(BigInt::from(909), 1000));
+        let (roots, cofactor) = rational_roots(&[q(-1, 1), q(0, 1), &c * &c]);
+        assert_eq!(roots, vec![(-c.recip(), 1), (c.recip(), 1)]);
+        assert_eq!(cofactor.len(), 1);
     }
 
     #[test]
