@@ -332,11 +332,37 @@ fn fold_gammas(
     for (rep, members) in groups {
         let min = members.iter().map(|(m, _)| *m).min().unwrap_or(0);
         let max = members.iter().map(|(m, _)| *m).max().unwrap_or(0);
-        if max - min > MAX_FOLD {
-            // Too far apart to write as one rational factor: each on its own.
+        // A symbolic group folds into a rising product of degree spread × exponent in the
+        // parameters: past `MAX_SYMBOLIC_FOLD` (the degree a parameter may have in a rule),
+        // the Gamma values stay apart. `(k−1)/(k + A/2) for k > 662` folded Γ(A/2 + 663)
+        // against Γ(A/2 + 2) into a polynomial of degree 661 in A: 406 s.
+        let weight = members
+            .iter()
+            .map(|(_, e)| i64::from(e.unsigned_abs()))
+            .max()
+            .unwrap_or(1);
+        let spread = if rep.as_constant().is_none() {
+            (MAX_SYMBOLIC_FOLD / weight).max(1)
+        } else {
+            MAX_FOLD
+        };
+        if max - min > spread {
+            // Too far apart to write as one rational factor: clusters of nearby arguments
+            // fold on their own (Γ(x)/Γ(x + 1) still becomes 1/x when Γ(x + 662) is there).
+            let mut members = members;
+            members.sort_by_key(|(offset, _)| *offset);
+            let mut clusters: Vec<Vec<(RatFunc, i32)>> = Vec::new();
+            let mut start = members[0].0;
             for (offset, e) in members {
-                let single = vec![(&rep + &RatFunc::from_integer(offset), e)];
-                out.extend(fold_gammas(single, coefficient));
+                if clusters.is_empty() || offset - start > spread {
+                    clusters.push(Vec::new());
+                    start = offset;
+                }
+                let gamma = (&rep + &RatFunc::from_integer(offset), e);
+                clusters.last_mut().expect("one cluster").push(gamma);
+            }
+            for cluster in clusters {
+                out.extend(fold_gammas(cluster, coefficient));
             }
             continue;
         }
@@ -397,6 +423,11 @@ fn fold_gammas(
 /// Largest integer spread folded into rational factors (beyond it the products would be
 /// enormous and tell a reader nothing).
 const MAX_FOLD: i64 = 1000;
+
+/// Largest degree (integer spread times exponent) a group of Gamma values with a symbolic
+/// argument folds into: the degree a parameter may have in a rule
+/// (`model::size::MAX_PARAMETER_DEGREE`).
+const MAX_SYMBOLIC_FOLD: i64 = 48;
 
 /// Most bits a constant Γ value raised to its exponent may take and still fold into a
 /// number: `p(k)/p(k-1) = (k + 662)^110` has Γ(664)^(−110) in its tail prefactor, a fraction
