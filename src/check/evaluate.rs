@@ -7,12 +7,13 @@
 use std::collections::BTreeMap;
 
 use num_bigint::BigInt;
+use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 use rug::float::Constant;
 use rug::Float;
 
 use crate::algebra::Q;
-use crate::numeric::{to_rug_rational, LogReal};
+use crate::numeric::{to_rug_integer, to_rug_rational, LogReal};
 use crate::syntax::BinOp;
 
 use super::claim::{Claim, ClaimKind, Function};
@@ -218,11 +219,13 @@ fn add(a: &Num, b: &Num, prec: u32) -> R {
 
 fn power(a: &Num, b: &Num, prec: u32) -> R {
     if let Some(n) = b.exact_integer() {
-        let n_small = n.to_i64().filter(|n| n.abs() <= 1_000_000_000);
+        // `unsigned_abs`: the exponent may be i64::MIN ((−8)^21), whose `abs` overflows.
+        let n_small = n.to_i64().filter(|n| n.unsigned_abs() <= 1_000_000_000);
         if let Some(n) = n_small {
             let exact = match &a.exact {
                 Some(x)
-                    if (x.numer().bits() + x.denom().bits()) * n.unsigned_abs() <= EXACT_BITS =>
+                    if (x.numer().bits() + x.denom().bits()).saturating_mul(n.unsigned_abs())
+                        <= EXACT_BITS =>
                 {
                     if x.is_zero() && n < 0 {
                         None
@@ -235,19 +238,20 @@ fn power(a: &Num, b: &Num, prec: u32) -> R {
             if let Some(q) = exact {
                 return Ok(Num::from_q(q, prec));
             }
-            let size = match &a.size {
-                Size::Zero if n > 0 => Size::Zero,
-                Size::Zero if n < 0 => Size::Infinite,
-                Size::Infinite if n > 0 => Size::Infinite,
-                Size::Infinite if n < 0 => Size::Zero,
-                Size::Zero | Size::Infinite => return Err(undefined("0^0 or infinity^0")),
-                Size::Finite { sign, ln_abs } => Size::Finite {
-                    sign: if n % 2 == 0 { 1 } else { *sign },
-                    ln_abs: Float::with_val(prec, ln_abs * n),
-                },
-            };
-            return Ok(Num { size, exact: None });
         }
+        // A whole exponent of any size: the sign by its parity, the size by n·ln|a|.
+        let size = match &a.size {
+            Size::Zero if n.is_positive() => Size::Zero,
+            Size::Zero if n.is_negative() => Size::Infinite,
+            Size::Infinite if n.is_positive() => Size::Infinite,
+            Size::Infinite if n.is_negative() => Size::Zero,
+            Size::Zero | Size::Infinite => return Err(undefined("0^0 or infinity^0")),
+            Size::Finite { sign, ln_abs } => Size::Finite {
+                sign: if n.is_even() { 1 } else { *sign },
+                ln_abs: Float::with_val(prec, ln_abs * Float::with_val(prec, to_rug_integer(&n))),
+            },
+        };
+        return Ok(Num { size, exact: None });
     }
     let y = b.to_float(prec)?;
     match &a.size {
