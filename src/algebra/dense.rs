@@ -175,19 +175,10 @@ pub(crate) fn integer_primitive(p: &[Q]) -> Vec<Q> {
 mod tests {
     use super::*;
     use crate::algebra::q;
+    use crate::algebra::roots::tests::multiply;
 
     fn ints(coeffs: &[i64]) -> Vec<Q> {
         coeffs.iter().map(|&c| q(c, 1)).collect()
-    }
-
-    fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
-        let mut out = vec![Q::zero(); a.len() + b.len() - 1];
-        for (i, x) in a.iter().enumerate() {
-            for (j, y) in b.iter().enumerate() {
-                out[i + j] += x * y;
-            }
-        }
-        out
     }
 
     #[test]

@@ -336,7 +336,7 @@ fn divide_by_linear(p: &[Q], root: &Q) -> Option<Vec<Q>> {
 }
 
 #[cfg(test)]
-mod tests {
+pub(crate) mod tests {
     use super::*;
     use crate::algebra::rational::q;
 
@@ -556,7 +556,7 @@ mod tests {
         assert_eq!(cofactor, ints(&[-1]));
     }
 
-    fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
+    pub(crate) fn multiply(a: &[Q], b: &[Q]) -> Vec<Q> {
         let mut out = vec![Q::zero(); a.len() + b.len() - 1];
         for (i, x) in a.iter().enumerate() {
             for (j, y) in b.iter().enumerate() {
