@@ -931,3 +931,55 @@ fn the_diagnosis_of_a_claim_in_ten_names_leaves_a_huge_growth_unread() {
         "{shown}"
     );
 }
+
+/// `telescope solve` on a file of the model fuzz corpus.
+fn solve_corpus_file(name: &str) -> String {
+    let path = format!("{}/fuzz/corpus/model/{name}", env!("CARGO_MANIFEST_DIR"));
+    let out = Command::new(env!("CARGO_BIN_EXE_telescope"))
+        .args(["solve", &path])
+        .output()
+        .expect("binary runs");
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    text(&out.stdout)
+}
+
+#[test]
+fn two_long_quintics_in_one_condition_are_cut_one_at_a_time() {
+    // Fuzz finding (model/finding_04d7eece…): a rate in ρ whose convergence condition holds
+    // two distinct quintics with 729-bit coefficients, each of them four times over. `solve`
+    // searched the rational roots of their degree-30 product and isolated the degree-10 rest,
+    // once each for the total, the mean and the variance: 13 s. Each distinct factor now gives
+    // up its rational roots alone, the rest is isolated one factor at a time over a coprime
+    // base, and a condition the three share is decided once: 0.46 s.
+    // The cuts against mpmath 1.3.0 (`polyroots` of each quintic as printed, 80 digits,
+    // extraprec 4000): both quintics have a root at −6.86855500839184708698075247482e−42 to
+    // these digits and one near 17; their roots near 1.6e−17 differ in the 28th digit.
+    let shown = solve_corpus_file("finding_04d7eecec88fc0b1bde048ef97fdba0f36179361");
+    for cut in [
+        "≈ -6.86855500839184708698075247482e-42",
+        "≈ 1.63875678383653021686082993385e-17",
+        "≈ 1.63875678383653021686082993399e-17",
+        "≈ 17.0000000000000000000000000000",
+    ] {
+        assert!(shown.contains(cut), "{cut}: {shown}");
+    }
+}
+
+#[test]
+fn a_quadratic_cut_near_ten_to_the_thousand_is_placed_at_once() {
+    // Fuzz finding (model/finding_25590c39…): the rate A/(B(ρ − ρ²)) with a 2,051-digit A.
+    // |rate| < 1 holds outside the roots 1/2 ± √(1/4 + A/B) of two quadratics; their
+    // isolating intervals, found together from a bound near 2^13,600, were narrowed by a
+    // polynomial converted to GMP at every halving (8.4 s). Each quadratic is now isolated
+    // alone and the intervals are separated in GMP: 0.28 s. The cuts against mpmath 1.3.0
+    // (1/2 ± sqrt(1/4 + A/B) at 3,000 digits, A and B as printed in the rule).
+    let shown = solve_corpus_file("finding_25590c39b438caa1fe0f567e336aa82c7fe1fd2d");
+    for cut in [
+        "ρ < 1/2 − √",
+        "≈ -3.04181719704048196814770671589e1007",
+        "ρ > 1/2 + √",
+        "≈ 3.04181719704048196814770671589e1007",
+    ] {
+        assert!(shown.contains(cut), "{cut}: {shown}");
+    }
+}

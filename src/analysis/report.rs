@@ -262,6 +262,10 @@ pub fn analyse(
     let law = tail_law(&form, &base, request.terms);
     let series = HyperSeries::of_sum(&form, &base);
     let closed = closed_sum(&series);
+    // The total's, the mean's and the variance's conditions are often one inequality (|r| < 1
+    // for a geometric tail): it is decided once. Cutting the range of a parameter can take
+    // seconds when the conditions carry long coefficients (a fuzz finding took 2 s per cut).
+    let mut decided: Vec<Requirement> = Vec::new();
     let requirements: Vec<Vec<Requirement>> = (0..3)
         .map(|j| {
             if finite_support {
@@ -272,7 +276,18 @@ pub fn analyse(
             convergence(&law, j as i64, &terms)
                 .map(|i| {
                     let why = purpose(j, sequence, index);
-                    Requirement::new(i, &why, values, &problem.params, request.digits)
+                    match decided.iter().find(|r| r.inequality == i) {
+                        Some(earlier) => Requirement {
+                            purpose: why,
+                            ..earlier.clone()
+                        },
+                        None => {
+                            let r =
+                                Requirement::new(i, &why, values, &problem.params, request.digits);
+                            decided.push(r.clone());
+                            r
+                        }
+                    }
                 })
                 .into_iter()
                 .collect()

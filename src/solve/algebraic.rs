@@ -45,7 +45,7 @@ fn monic(p: Vec<Q>) -> Vec<Q> {
 }
 
 /// a / b for b dividing a exactly.
-fn quotient(a: &[Q], b: &[Q]) -> Vec<Q> {
+pub(super) fn quotient(a: &[Q], b: &[Q]) -> Vec<Q> {
     let mut r = trim(a.to_vec());
     let lead = b.last().expect("non-zero divisor").clone();
     if r.len() < b.len() {
@@ -287,6 +287,23 @@ impl Algebraic {
             radicand,
         })
     }
+}
+
+/// Halves the isolating intervals of two distinct numbers, the wider first, until they are
+/// disjoint (roots of coprime polynomials isolated one polynomial at a time may share
+/// intervals).
+pub fn separate(a: &mut Algebraic, b: &mut Algebraic) {
+    let (mut x, mut y) = (Bisection::of(a), Bisection::of(b));
+    while x.high >= y.low && y.high >= x.low {
+        let x_width = Rational::from(&x.high - &x.low);
+        if x_width >= Rational::from(&y.high - &y.low) {
+            x.halve();
+        } else {
+            y.halve();
+        }
+    }
+    x.store(a);
+    y.store(b);
 }
 
 /// The isolating interval in GMP rationals, for bisection: `num-rational` reduces every sum

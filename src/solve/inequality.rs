@@ -13,9 +13,10 @@ use num_traits::{One, Signed, Zero};
 use crate::algebra::{rational_roots, RatFunc, Q};
 use crate::model::Param;
 
-use super::algebraic::{isolate, squarefree, Algebraic};
+use super::algebraic::{isolate, quotient, separate, squarefree, Algebraic};
 use super::box_sign::{box_sign, poly_sign, BoxSign};
-use super::ranges::{evaluate, multiply, trim, Extended, Interval};
+use super::ranges::{evaluate, trim, Extended, Interval};
+use crate::algebra::univariate_gcd;
 
 /// An end of a solution interval.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -117,6 +118,63 @@ pub fn split_univariate(
     split_univariate_open(param, integer, inequalities, &[], range, digits)
 }
 
+/// `p` divided by its leading coefficient (the zero polynomial as it is): two polynomials
+/// with the same zeros up to a constant factor become equal.
+fn monic(p: &[Q]) -> Vec<Q> {
+    let p = trim(p.to_vec());
+    match p.last() {
+        Some(lead) if !lead.is_one() => {
+            let lead = lead.clone();
+            p.iter().map(|c| c / &lead).collect()
+        }
+        _ => p,
+    }
+}
+
+/// Pairwise coprime polynomials with the zeros of the squarefree `polys`: a factor common to
+/// two is split off as its own (a coprime base), so each zero is a root of exactly one.
+fn coprime_base(mut pending: Vec<Vec<Q>>) -> Vec<Vec<Q>> {
+    let mut base: Vec<Vec<Q>> = Vec::new();
+    while let Some(p) = pending.pop() {
+        let p = trim(p);
+        if p.len() <= 1 {
+            continue;
+        }
+        let common = base.iter().enumerate().find_map(|(i, b)| {
+            let g = trim(univariate_gcd(&p, b));
+            (g.len() > 1).then_some((i, g))
+        });
+        match common {
+            None => base.push(p),
+            // Each split lowers the total degree by deg g ≥ 1, so this ends.
+            Some((i, g)) => {
+                let b = base.swap_remove(i);
+                pending.extend([quotient(&p, &g), quotient(&b, &g), g]);
+            }
+        }
+    }
+    base
+}
+
+/// The irrational cuts: the zeros of each base polynomial inside the range, isolated one
+/// polynomial at a time, then halved until no two isolating intervals meet (they are distinct
+/// numbers, so this ends). Isolating the product instead took 2.2 s for two quintics with
+/// 729-bit coefficients, 9 ms for each alone (a fuzz finding).
+fn isolate_apart(base: Vec<Vec<Q>>, range: &Interval) -> Vec<Algebraic> {
+    let mut cuts: Vec<Algebraic> = base
+        .iter()
+        .flat_map(|p| isolate(p, &range.low, &range.high, 0))
+        .collect();
+    loop {
+        cuts.sort_by(|x, y| x.low.cmp(&y.low));
+        let Some(i) = cuts.windows(2).position(|w| w[0].high >= w[1].low) else {
+            return cuts;
+        };
+        let (left, right) = cuts.split_at_mut(i + 1);
+        separate(&mut left[i], &mut right[0]);
+    }
+}
+
 /// As [`split_univariate`], but the zeros of the `open_at` polynomials are left out of both
 /// lists: points where the inequalities fail but the question they stand for is not decided
 /// (|r| = 1 for a convergence rate r).
@@ -128,16 +186,36 @@ pub fn split_univariate_open(
     range: &Interval,
     digits: u32,
 ) -> Split {
-    let mut product = vec![Q::one()];
-    for (n, d) in inequalities {
-        product = multiply(&multiply(&product, n), d);
+    // The cuts are the zeros of Π N_i·D_i·P_j. Each distinct factor is taken once (a repeated
+    // one adds no zero, and conditions repeat theirs: an `open_at` polynomial is the numerator
+    // of its own inequality) and gives up its rational roots on its own; what is left is
+    // isolated factor by factor over a coprime base. A fuzz finding repeated a degree-5
+    // factor with 656-bit coefficients four times and searched and isolated the roots of the
+    // degree-30 product: 13 s, now 0.3 s.
+    let mut distinct: Vec<Vec<Q>> = Vec::new();
+    for p in inequalities.iter().flat_map(|(n, d)| [n, d]).chain(open_at) {
+        let p = monic(p);
+        if p.len() != 1 && !distinct.contains(&p) {
+            distinct.push(p);
+        }
     }
-    for p in open_at {
-        product = multiply(&product, p);
-    }
+    let roots_of: Vec<(Vec<Q>, Vec<Q>)> = distinct
+        .iter()
+        .map(|p| {
+            let (roots, cofactor) = rational_roots(p);
+            (roots.into_iter().map(|(r, _)| r).collect(), cofactor)
+        })
+        .collect();
+    let cofactor_of = |p: &[Q]| -> Vec<Q> {
+        let p = monic(p);
+        distinct
+            .iter()
+            .position(|d| *d == p)
+            .map_or(p, |i| roots_of[i].1.clone())
+    };
     let open_factors: Vec<Vec<Q>> = open_at
         .iter()
-        .map(|p| squarefree(&rational_roots(p).1))
+        .map(|p| squarefree(&cofactor_of(p)))
         .collect();
     // The verdict at a point: open where an `open_at` polynomial vanishes.
     let at_rational = |q: &Q| -> Option<bool> {
@@ -147,25 +225,32 @@ pub fn split_univariate_open(
             Some(all_hold(inequalities, q))
         }
     };
-    let product = trim(product);
     let inside = |q: &Q| {
         let x = Extended::Finite(q.clone());
         x > range.low && x < range.high
     };
-    let (rational, cofactor) = rational_roots(&product);
-    let rational: Vec<Q> = rational
-        .into_iter()
-        .map(|(r, _)| r)
+    let mut rational: Vec<Q> = roots_of
+        .iter()
+        .flat_map(|(roots, _)| roots.iter().cloned())
         .filter(|r| inside(r))
         .collect();
+    rational.sort();
+    rational.dedup();
     // Decimals wait until each cut has its own polynomial (below).
-    let mut irrational = isolate(&squarefree(&cofactor), &range.low, &range.high, 0);
+    let cofactors = roots_of.iter().map(|(_, c)| squarefree(c)).collect();
+    let mut irrational = isolate_apart(coprime_base(cofactors), range);
     // Each cut as a root of the smallest factor it comes from (its own N_i or D_i), so that
     // it reads as simply as it can: √2, not a root of the whole product.
-    let factors: Vec<Vec<Q>> = inequalities
+    let mut factors: Vec<Vec<Q>> = Vec::new();
+    for p in inequalities.iter().flat_map(|(n, d)| [n, d]) {
+        let p = monic(p);
+        if p.len() > 2 && !factors.contains(&p) {
+            factors.push(p);
+        }
+    }
+    let factors: Vec<Vec<Q>> = factors
         .iter()
-        .flat_map(|(n, d)| [n, d])
-        .map(|p| squarefree(&rational_roots(p).1))
+        .map(|p| squarefree(&cofactor_of(p)))
         .filter(|p| p.len() > 2)
         .collect();
     for a in &mut irrational {
@@ -529,6 +614,37 @@ mod tests {
         assert_eq!(s.holds.len(), 2);
         assert_eq!(s.fails.len(), 1);
         assert_eq!(s.fails[0].low, s.fails[0].high);
+    }
+
+    #[test]
+    fn factors_sharing_a_root_and_roots_a_hair_apart_give_one_cut_each() {
+        // (x² − 2)(x² − 3) and x² − 2 share the factor x² − 2; 10^20 x² − 2·10^20 − 1 has the
+        // roots ±√(2 + 10^−20), 3.5·10^−21 from ±√2. The coprime base isolates each of the six
+        // roots once, and the intervals come out disjoint and ascending (common practice: the
+        // coprime base of Collins' cylindrical algebraic decomposition).
+        let e20 = q(10, 1).pow(20);
+        let polys = vec![
+            vec![q(6, 1), q(0, 1), q(-5, 1), q(0, 1), q(1, 1)],
+            vec![q(-2, 1), q(0, 1), q(1, 1)],
+            vec![-(&e20 * q(2, 1)) - q(1, 1), q(0, 1), e20],
+        ];
+        let base = coprime_base(polys);
+        assert_eq!(base.len(), 3, "{base:?}");
+        let cuts = isolate_apart(base, &range(None, None));
+        assert!(cuts.windows(2).all(|w| w[0].high < w[1].low), "{cuts:?}");
+        let decimals: Vec<String> = cuts.iter().map(|a| a.decimal_digits(25)).collect();
+        // √3, √(2 + 10^−20) and √2 to 25 digits by mpmath 1.3.0 (`sqrt` at 40 digits).
+        assert_eq!(
+            decimals,
+            [
+                "-1.732050807568877293527446",
+                "-1.414213562373095048805224",
+                "-1.414213562373095048801689",
+                "1.414213562373095048801689",
+                "1.414213562373095048805224",
+                "1.732050807568877293527446",
+            ]
+        );
     }
 
     #[test]
