@@ -983,3 +983,26 @@ fn a_quadratic_cut_near_ten_to_the_thousand_is_placed_at_once() {
         assert!(shown.contains(cut), "{cut}: {shown}");
     }
 }
+
+#[test]
+fn a_value_past_ten_to_the_two_to_the_sixty_one_keeps_its_exponent() {
+    // Noticed on the fuzz finding claim/crash-780d6851…: the claim (−5)^((−8)^k) has the ratio
+    // (−5)^(−9·(−8)^(k−1)), about 10^(5.8·10^19) at k = 22, and its decimal exponent saturated
+    // at 4611686018427387903. The exponent is now written in full. Mantissas and exponents
+    // against mpmath 1.3.0 (10^frac(n·log10 5) and floor(n·log10 5), n = −9·(−8)^(k−1), at 60
+    // digits).
+    let out = with_stdin(
+        &["check", "-", "--claim", "(-5)^(-8)^k"],
+        "a(k)/a(k-1) = 1/2 for k >= 20\n",
+    );
+    assert_eq!(out.status.code(), Some(1), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    for ratio in [
+        "k = 20: claim 4.33050214491e906589742708404299,",
+        "k = 21: claim 8.08525898445e-7252717941667234398,",
+        "k = 22: claim 5.47581181898e58021743533337875176,",
+        "k = 23: claim 1.23712015237e-464173948266703001414,",
+    ] {
+        assert!(shown.contains(ratio), "{ratio}: {shown}");
+    }
+}

@@ -94,17 +94,31 @@ impl LogReal {
         let exp10 = log10.clone().floor();
         let fraction = Float::with_val(prec, &log10 - &exp10);
         let mantissa = Float::with_val(prec, 10).pow(&fraction);
-        let (_, mantissa_digits, mantissa_exp) =
-            mantissa.to_sign_string_exp(10, Some(digits as usize));
-        let exp10 = exp10
-            .to_integer()
-            .and_then(|n| n.to_i64())
-            .unwrap_or(i64::MAX / 2);
-        decimal::layout(
-            self.sign < 0,
-            &mantissa_digits,
-            exp10 + mantissa_exp.unwrap_or(1) as i64,
-        )
+        let exp10 = exp10.to_integer().unwrap_or_default();
+        if let Some(e) = exp10.to_i64().filter(|e| e.abs() < i64::MAX / 4) {
+            let (_, mantissa_digits, mantissa_exp) =
+                mantissa.to_sign_string_exp(10, Some(digits as usize));
+            return decimal::layout(
+                self.sign < 0,
+                &mantissa_digits,
+                e + mantissa_exp.unwrap_or(1) as i64,
+            );
+        }
+        // Past 10^(2^61) the exponent is written as the integer it is (it saturated at
+        // 4611686018427387903 before: a fuzz finding), and the mantissa keeps only the digits
+        // the logarithm carries: its absolute error is about |log10| · 2^−prec.
+        let carried =
+            f64::from(prec) * std::f64::consts::LOG10_2 - log10.to_f64().abs().log10() - 1.0;
+        let shown = (digits as f64).min(carried.floor()).max(1.0) as usize;
+        let (_, mantissa_digits, mantissa_exp) = mantissa.to_sign_string_exp(10, Some(shown));
+        let e = exp10 + (mantissa_exp.unwrap_or(1) - 1);
+        let (head, tail) = mantissa_digits.split_at(1);
+        let sign = if self.sign < 0 { "-" } else { "" };
+        if tail.is_empty() {
+            format!("{sign}{head}e{e}")
+        } else {
+            format!("{sign}{head}.{tail}e{e}")
+        }
     }
 
     /// |self/other − 1|, with 0 when both are zero and +inf when exactly one is.
