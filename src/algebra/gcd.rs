@@ -11,6 +11,8 @@
 //! usual case when adding rational functions), and a divisibility test catches `b | a`. Only
 //! what is left goes through the subresultant remainder sequence.
 
+use std::collections::BTreeMap;
+
 use num_traits::One;
 
 use super::dense;
@@ -139,15 +141,20 @@ fn monomial_gcd(a: &Monomial, b: &Monomial) -> Monomial {
 fn degree_bounds(a: &Poly, b: &Poly) -> Vec<(String, Option<u32>)> {
     let mut variables = a.variables();
     variables.extend(b.variables());
+    let variables: Vec<String> = variables.into_iter().collect();
+    // One point per attempt for every variable; each image leaves its own variable free.
+    let points: Vec<BTreeMap<&str, u64>> = (0..DEGREE_BOUND_ATTEMPTS)
+        .map(|attempt| modular::point(&variables, attempt))
+        .collect();
     variables
-        .into_iter()
+        .iter()
         .map(|var| {
-            let bound = if a.contains_var(&var) && b.contains_var(&var) {
-                degree_bound(a, b, &var)
+            let bound = if a.contains_var(var) && b.contains_var(var) {
+                degree_bound_at(a, b, var, &points)
             } else {
                 Some(0)
             };
-            (var, bound)
+            (var.clone(), bound)
         })
         .collect()
 }
@@ -250,17 +257,25 @@ fn primitive_gcd_in(a: Poly, b: Poly, var: &str, known_bound: Option<u32>) -> Po
 /// images modulo a prime at a point where neither leading coefficient vanishes (see
 /// [`modular`]). `None` if no tried point was usable.
 fn degree_bound(a: &Poly, b: &Poly, var: &str) -> Option<u32> {
-    let mut others = a.variables();
-    others.extend(b.variables());
-    others.remove(var);
-    let others: Vec<String> = others.into_iter().collect();
+    let mut variables = a.variables();
+    variables.extend(b.variables());
+    let variables: Vec<String> = variables.into_iter().collect();
+    let points: Vec<BTreeMap<&str, u64>> = (0..DEGREE_BOUND_ATTEMPTS)
+        .map(|attempt| modular::point(&variables, attempt))
+        .collect();
+    degree_bound_at(a, b, var, &points)
+}
+
+/// Points tried for a degree bound before giving up.
+const DEGREE_BOUND_ATTEMPTS: u64 = 4;
+
+/// [`degree_bound`] at given points (values for every variable; `var`'s own is ignored).
+fn degree_bound_at(a: &Poly, b: &Poly, var: &str, points: &[BTreeMap<&str, u64>]) -> Option<u32> {
     let (degree_a, degree_b) = (a.degree_in(var) as usize, b.degree_in(var) as usize);
-    for attempt in 0..4 {
-        let point = modular::point(&others, attempt);
-        let (Some(image_a), Some(image_b)) = (
-            modular::image(a, var, &point),
-            modular::image(b, var, &point),
-        ) else {
+    for point in points {
+        let (Some(image_a), Some(image_b)) =
+            (modular::image(a, var, point), modular::image(b, var, point))
+        else {
             continue;
         };
         if image_a[degree_a] == 0 || image_b[degree_b] == 0 {

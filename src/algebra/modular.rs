@@ -18,12 +18,25 @@ use super::rational::Q;
 /// 2^61 − 1, a Mersenne prime: products of two residues fit in a `u128`.
 const PRIME: u64 = (1 << 61) - 1;
 
+/// a·b mod 2^61 − 1 for residues a, b: 2^61 ≡ 1, so the high bits of the product fold onto
+/// the low ones (two folds and one subtraction, no 128-bit division).
 fn mul(a: u64, b: u64) -> u64 {
-    ((a as u128 * b as u128) % PRIME as u128) as u64
+    let product = a as u128 * b as u128;
+    let folded = (product as u64 & PRIME) + (product >> 61) as u64;
+    reduce((folded & PRIME) + (folded >> 61))
+}
+
+/// x mod 2^61 − 1 for x < 2^62.
+fn reduce(x: u64) -> u64 {
+    if x >= PRIME {
+        x - PRIME
+    } else {
+        x
+    }
 }
 
 fn add(a: u64, b: u64) -> u64 {
-    (a + b) % PRIME
+    reduce(a + b)
 }
 
 fn sub(a: u64, b: u64) -> u64 {
@@ -65,13 +78,17 @@ fn integer_residue(n: &num_bigint::BigInt) -> u64 {
 
 /// The residue of a rational, or `None` when its denominator is a multiple of the prime.
 fn residue(q: &Q) -> Option<u64> {
+    if q.is_integer() {
+        // No inverse to take (61 squarings each, once per term of every image).
+        return Some(integer_residue(q.numer()));
+    }
     let denominator = integer_residue(q.denom());
     (denominator != 0).then(|| mul(integer_residue(q.numer()), inverse(denominator)))
 }
 
 /// A point for the variables other than the main one: distinct pseudo-random residues that
 /// change with `attempt` (a fixed splitmix64 stream, so that runs are reproducible).
-pub(super) fn point(names: &[String], attempt: u64) -> BTreeMap<String, u64> {
+pub(super) fn point(names: &[String], attempt: u64) -> BTreeMap<&str, u64> {
     names
         .iter()
         .enumerate()
@@ -80,14 +97,14 @@ pub(super) fn point(names: &[String], attempt: u64) -> BTreeMap<String, u64> {
             z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
             z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
             z ^= z >> 31;
-            (name.clone(), 2 + z % (PRIME - 2))
+            (name.as_str(), 2 + z % (PRIME - 2))
         })
         .collect()
 }
 
 /// Coefficients (constant term first) of `p` as a polynomial in `var` with the other variables
 /// at `point`, modulo the prime; `None` when a coefficient's denominator vanishes there.
-pub(super) fn image(p: &Poly, var: &str, point: &BTreeMap<String, u64>) -> Option<Vec<u64>> {
+pub(super) fn image(p: &Poly, var: &str, point: &BTreeMap<&str, u64>) -> Option<Vec<u64>> {
     let mut coeffs = vec![0u64; p.degree_in(var) as usize + 1];
     for (monomial, c) in p.terms() {
         let mut value = residue(c)?;
@@ -96,7 +113,8 @@ pub(super) fn image(p: &Poly, var: &str, point: &BTreeMap<String, u64>) -> Optio
             if name == var {
                 degree = e as usize;
             } else {
-                value = mul(value, pow(point[name], e.into()));
+                let x = point[name];
+                value = mul(value, if e == 1 { x } else { pow(x, e.into()) });
             }
         }
         coeffs[degree] = add(coeffs[degree], value);
@@ -157,6 +175,22 @@ mod tests {
     }
 
     #[test]
+    fn folded_products_agree_with_division() {
+        // Common practice (Mersenne reduction): the folded product equals (a·b) mod p by u128
+        // division, at the ends of the range and on a splitmix64 stream.
+        let mut values = vec![0, 1, 2, PRIME - 2, PRIME - 1, 1 << 60, (1 << 60) + 12345];
+        let names: Vec<String> = (0..40).map(|i| i.to_string()).collect();
+        values.extend(point(&names, 7).values());
+        for &a in &values {
+            for &b in &values {
+                let expected = ((a as u128 * b as u128) % PRIME as u128) as u64;
+                assert_eq!(mul(a, b), expected, "{a} · {b}");
+                assert_eq!(add(a, b), ((a as u128 + b as u128) % PRIME as u128) as u64);
+            }
+        }
+    }
+
+    #[test]
     fn gcd_degree_of_images() {
         // (x − 1)(x − 2) and (x − 1)(x + 5): gcd x − 1, degree 1; coprime images: degree 0.
         let a = [2, sub(0, 3), 1];
@@ -174,7 +208,8 @@ mod tests {
         let y = Poly::var("y");
         let half = Poly::constant(q(1, 2));
         let p = &(&(&x * &x) * &y) + &(&(&half * &x) - &y);
-        let at = point(&["y".to_string()], 0);
+        let names = ["y".to_string()];
+        let at = point(&names, 0);
         let y_value = at["y"];
         let coeffs = image(&p, "x", &at).unwrap();
         assert_eq!(coeffs, vec![sub(0, y_value), inverse(2), y_value]);

@@ -190,10 +190,14 @@ impl Poly {
     }
 
     pub fn variables(&self) -> BTreeSet<String> {
-        self.terms
+        // Names borrowed first, so each is copied once rather than once per term (a third of
+        // the time of a fuzzed rule in twenty names went to these copies).
+        let names: BTreeSet<&str> = self
+            .terms
             .iter()
-            .flat_map(|(key, _)| key.0.factors().map(|(name, _)| name.to_string()))
-            .collect()
+            .flat_map(|(key, _)| key.0.factors().map(|(name, _)| name))
+            .collect();
+        names.into_iter().map(String::from).collect()
     }
 
     pub fn contains_var(&self, var: &str) -> bool {

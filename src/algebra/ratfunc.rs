@@ -146,7 +146,19 @@ impl RatFunc {
             return None;
         }
         if !self.den.is_one() {
-            return (self - other).as_constant();
+            // (a − c)/d is the number q exactly when a − c = q·d, compared term by term:
+            // no gcd, which reducing (a − c)/d would take
+            // (the pairings of the simplifier ask this of every pair of Γ arguments).
+            let n = &self.num - &other.num;
+            let Some((monomial, lead)) = n.leading_term() else {
+                return Some(Q::zero());
+            };
+            let (den_monomial, den_lead) = self.den.leading_term()?;
+            if monomial != den_monomial || n.term_count() != self.den.term_count() {
+                return None;
+            }
+            let q = lead / den_lead;
+            return (n == self.den.scale(&q)).then_some(q);
         }
         fn variable_terms(p: &Poly) -> impl Iterator<Item = (&super::Monomial, &Q)> {
             p.terms().filter(|(m, _)| !m.is_one())
