@@ -1006,3 +1006,23 @@ fn a_value_past_ten_to_the_two_to_the_sixty_one_keeps_its_exponent() {
         assert!(shown.contains(ratio), "{ratio}: {shown}");
     }
 }
+
+#[test]
+fn a_model_file_in_twenty_names_is_solved_and_analysed() {
+    // Fuzz finding (model/timeout-4f5f3142…, and slow-unit-f17a32ae… beside it): a model file
+    // whose rule holds twenty names (ak, am1, fo1u, kVVVV, …). Its multivariate gcds copied
+    // every name once per term, recomputed the variable set and an evaluation point for every
+    // variable, and took a Fermat inverse for every integer coefficient; the simplifier
+    // reduced a difference by a gcd to see whether it is a number: 13 s in the instrumented
+    // build, 6.1 s in release, now 2.4 s (the rest is multiplying polynomials of hundreds of
+    // terms). The rule is declared for kc ≥ 20, so its base term is a(19) (the rule as
+    // written).
+    let input =
+        include_str!("../fuzz/corpus/model/timeout-4f5f3142673f28a36536f14dbfc0d72df8504002");
+    let out = with_stdin(&["solve", "-"], input);
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let shown = text(&out.stdout);
+    assert!(shown.contains("base term    a(19)"), "{shown}");
+    assert!(shown.contains("support      19 ≤ kc ≤"), "{shown}");
+    telescope::fuzzing::model_pipeline(input.as_bytes());
+}

@@ -161,6 +161,27 @@ mod tests {
     }
 
     #[test]
+    fn numeric_differences_over_a_shared_denominator() {
+        // By hand: (x + y + 3)/(2x + y) − (−x + 2)/(2x + y) = (2x + y + 1)/(2x + y), not a
+        // number; (5x + 3y)/(2x + y) − (x + y)/(2x + y) = 2; and a difference of 0.
+        let (x, y) = (p("x"), p("y"));
+        let den = &(&x * &Poly::from_integer(2)) + &y;
+        let a = frac(&(&x + &y) + &Poly::from_integer(3), den.clone());
+        let b = frac(&Poly::from_integer(2) - &x, den.clone());
+        assert_eq!(a.difference_if_number(&b), None);
+        let five_x_three_y = &(&x * &Poly::from_integer(5)) + &(&y * &Poly::from_integer(3));
+        let d = frac(five_x_three_y, den.clone());
+        let e = frac(&x + &y, den.clone());
+        assert_eq!(d.difference_if_number(&e), Some(q(2, 1)));
+        assert_eq!(e.difference_if_number(&d), Some(q(-2, 1)));
+        assert_eq!(d.difference_if_number(&d), Some(q(0, 1)));
+        // Each agrees with the difference formed and reduced.
+        for (f, g) in [(&a, &b), (&d, &e), (&e, &d)] {
+            assert_eq!(f.difference_if_number(g), (f - g).as_constant());
+        }
+    }
+
+    #[test]
     fn sum_is_canonical() {
         // 1 + 1/(1 - rho) = (2 - rho)/(1 - rho)
         let rho = p("rho");
