@@ -1024,5 +1024,5 @@ fn a_model_file_in_twenty_names_is_solved_and_analysed() {
     let shown = text(&out.stdout);
     assert!(shown.contains("base term    a(19)"), "{shown}");
     assert!(shown.contains("support      19 ≤ kc ≤"), "{shown}");
-    telescope::fuzzing::model_pipeline(input.as_bytes());
+    // `tests/fuzz_corpus.rs` runs the whole model pipeline on it.
 }
