@@ -1026,3 +1026,22 @@ fn a_model_file_in_twenty_names_is_solved_and_analysed() {
     assert!(shown.contains("support      19 ≤ kc ≤"), "{shown}");
     // `tests/fuzz_corpus.rs` runs the whole model pipeline on it.
 }
+
+#[test]
+fn a_gcd_takes_its_main_variable_of_lowest_degree() {
+    // Fuzz finding (parse/timeout-f9f0648b…, on the seventh session's final code): nested
+    // differences of fractions in k, k0, k1 and klamXda with a k^36. Adding two of them took
+    // a gcd whose degree bound was 1 in every name; it chose k, of degrees 35 and 5, and its
+    // remainder sequence ran past 5 minutes (a leading coefficient to the 30th power, 22,608
+    // terms after one step). Among equal bounds the gcd now takes the name of lowest degree,
+    // and the rule is judged at once: its factor of degree 41 in k cannot be split.
+    let input =
+        include_str!("../fuzz/corpus/parse/timeout-f9f0648babbfbaa741946ca44de9b291cf626dca");
+    let out = with_stdin(&["solve", "-"], input);
+    assert_eq!(out.status.code(), Some(2), "{}", text(&out.stdout));
+    let shown = text(&out.stderr);
+    assert!(
+        shown.contains("this factor has degree 41 in k") && shown.contains("column 8"),
+        "{shown}"
+    );
+}

@@ -162,7 +162,8 @@ fn degree_bounds(a: &Poly, b: &Poly) -> Vec<(String, Option<u32>)> {
 /// Picks the main variable, with the degree bound of the gcd in it when one was computed.
 /// First choice: a variable only one input contains (the gcd is then the common content of
 /// the coefficients in it); next, one whose degree bound is 0; otherwise the smallest bound,
-/// so the remainder sequence is short. `None` when neither input has a variable.
+/// so the remainder sequence is short, and of those the lowest degree. `None` when neither
+/// input has a variable.
 fn choose_main_variable(
     a: &Poly,
     b: &Poly,
@@ -174,12 +175,15 @@ fn choose_main_variable(
     {
         return Some((var.clone(), None));
     }
+    // Among equal bounds, the lowest degree: the pseudo-divisions raise leading coefficients
+    // to the difference of the degrees (a fuzzed rule chose k, of degrees 35 and 5, over
+    // names of degree 1, and its remainder sequence ran past 5 minutes).
     let bounded = bounds
         .iter()
-        .filter_map(|(v, bound)| bound.map(|bound| (bound, v)))
+        .filter_map(|(v, bound)| bound.map(|bound| (bound, a.degree_in(v).max(b.degree_in(v)), v)))
         .min();
     match bounded {
-        Some((bound, var)) => Some((var.clone(), Some(bound))),
+        Some((bound, _, var)) => Some((var.clone(), Some(bound))),
         None => bounds.first().map(|(v, _)| (v.clone(), None)),
     }
 }
