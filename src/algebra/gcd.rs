@@ -43,8 +43,13 @@ fn gcd_with(a: &Poly, b: &Poly, shortcuts: bool) -> Poly {
     if shortcuts && a == b {
         return normalise(a);
     }
-    let (monomial_a, a) = split_monomial_content(a);
-    let (monomial_b, b) = split_monomial_content(b);
+    // Primitive integer parts first (the gcd is defined up to a unit): every product and
+    // sum below is then one of integers. With rational coefficients `num` reduced each one by
+    // its binary gcd, 99% of 22 s on a fuzzed rule whose moments multiplied rational functions
+    // in six names with 692-bit fractions.
+    let (a, b) = (normalise(a), normalise(b));
+    let (monomial_a, a) = split_monomial_content(&a);
+    let (monomial_b, b) = split_monomial_content(&b);
     let common_monomial = Poly::from_term(monomial_gcd(&monomial_a, &monomial_b), Q::one());
     if let Some(rest) = small_case_gcd(&a, &b).filter(|_| shortcuts) {
         return normalise(&(&rest * &common_monomial));
@@ -486,6 +491,29 @@ mod tests {
         let h = &big * &(&x - c(2));
         assert_eq!(degree_bound(&h, &(&big * &(&x + &z)), "x"), Some(0));
         assert_eq!(degree_bound(&h, &(&big * &(&x + &z)), "y"), Some(1));
+    }
+
+    #[test]
+    fn rational_coefficients_of_two_hundred_digits_give_the_integer_gcd() {
+        use super::gcd_with;
+        use crate::algebra::rational::Q;
+        use num_bigint::BigInt;
+        // Constructed common factor (common practice): g = x/7 + (10^200/3)·y − z/11 + 5/13
+        // times w − 2/9, against cofactors with fractions of their own. The gcd is g made
+        // primitive with integer coefficients, whichever route computes it (inputs with
+        // rational coefficients are made integral first: a fuzzed rule with 692-bit fractions
+        // spent 22 s in `num`'s reductions of rational products).
+        let (x, y, z, w) = (v("x"), v("y"), v("z"), v("w"));
+        let big = Poly::constant(Q::new(BigInt::from(10).pow(200), BigInt::from(3)));
+        let g = (x.scale(&q(1, 7)) + &big * &y - z.scale(&q(1, 11)) + Poly::constant(q(5, 13)))
+            * (&w - Poly::constant(q(2, 9)));
+        let a = &g * &(x.pow(2).scale(&q(3, 17)) - &y * &z + Poly::constant(q(1, 19)));
+        let b = &g * &(&big * &w * &x + y.pow(2).scale(&q(-5, 23)) + c(1));
+        let expected = g.content_and_primitive().1;
+        assert!(expected.terms().all(|(_, c)| c.is_integer()));
+        assert_eq!(Poly::gcd(&a, &b), expected);
+        assert_eq!(gcd_with(&a, &b, false), expected);
+        assert_eq!(Poly::gcd(&a.scale(&q(-2, 3)), &b), expected);
     }
 
     #[test]

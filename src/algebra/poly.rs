@@ -5,7 +5,9 @@
 use std::cmp::Ordering;
 use std::collections::btree_map::Entry;
 use std::collections::hash_map::Entry as HashEntry;
-use std::collections::{BTreeMap, BTreeSet, HashMap};
+use std::collections::{BTreeMap, BTreeSet};
+
+use rustc_hash::FxHashMap;
 use std::fmt;
 
 use num_bigint::BigInt;
@@ -125,7 +127,7 @@ impl Poly {
     /// multiplication): equal monomials are summed in a hash map first, and only the distinct
     /// ones are sorted, by total degree computed once each.
     pub(crate) fn from_many_terms(terms: impl IntoIterator<Item = (Monomial, Q)>) -> Self {
-        let mut sums: HashMap<Monomial, Q> = HashMap::new();
+        let mut sums: FxHashMap<Monomial, Q> = FxHashMap::default();
         for (m, c) in terms {
             match sums.entry(m) {
                 HashEntry::Occupied(mut sum) => add_assign_q(sum.get_mut(), &c),
