@@ -41,6 +41,7 @@ mod roots;
 mod properties;
 
 pub(crate) use dense::gcd as univariate_gcd;
+pub(crate) use modular::Residue;
 pub use monomial::Monomial;
 pub use poly::{Poly, UnboundVariable};
 pub use ratfunc::{EvalError, RatFunc};

@@ -122,6 +122,50 @@ pub(super) fn image(p: &Poly, var: &str, point: &BTreeMap<&str, u64>) -> Option<
     Some(coeffs)
 }
 
+/// The value of `p` modulo the prime with every variable at `point` (which must hold them
+/// all); `None` when a coefficient's denominator is a multiple of the prime.
+pub(super) fn value(p: &Poly, point: &BTreeMap<&str, u64>) -> Option<u64> {
+    let mut sum = 0;
+    for (monomial, c) in p.terms() {
+        let mut term = residue(c)?;
+        for (name, e) in monomial.factors() {
+            let x = point[name];
+            term = mul(term, if e == 1 { x } else { pow(x, e.into()) });
+        }
+        sum = add(sum, term);
+    }
+    Some(sum)
+}
+
+/// A residue modulo 2^61 − 1: the value of a rational function at a point (see
+/// [`crate::algebra::RatFunc::residues`]). Equal rational functions have equal residues, so
+/// unequal residues prove that two differ.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub(crate) struct Residue(u64);
+
+impl Residue {
+    pub(crate) fn from_integer(n: i64) -> Residue {
+        Residue(integer_residue(&n.into()))
+    }
+
+    /// `num/den` at `point`; `None` when the denominator vanishes there.
+    pub(super) fn of_quotient(
+        num: &Poly,
+        den: &Poly,
+        point: &BTreeMap<&str, u64>,
+    ) -> Option<Residue> {
+        let den = value(den, point).filter(|&d| d != 0)?;
+        Some(Residue(mul(value(num, point)?, inverse(den))))
+    }
+}
+
+impl std::ops::Add for Residue {
+    type Output = Residue;
+    fn add(self, other: Residue) -> Residue {
+        Residue(add(self.0, other.0))
+    }
+}
+
 /// Degree of the gcd of two univariate polynomials modulo the prime (Euclid's algorithm);
 /// `None` if either is zero.
 pub(super) fn gcd_degree(a: &[u64], b: &[u64]) -> Option<usize> {

@@ -6,6 +6,7 @@ use std::fmt;
 
 use num_traits::{One, Zero};
 
+use super::modular::{self, Residue};
 use super::poly::{Poly, UnboundVariable};
 use super::rational::Q;
 
@@ -135,6 +136,26 @@ impl RatFunc {
         } else {
             None
         }
+    }
+
+    /// The values of `functions` at one pseudo-random point modulo the prime 2^61 − 1 (the
+    /// same point for all, reproducible); `None` for one whose denominator vanishes there.
+    /// Equal functions have equal residues, so unequal residues prove `a ≠ b` without
+    /// forming `a − b`; equal residues say nothing for certain (they agree by chance with a
+    /// probability of about degree/2^61; Schwartz–Zippel lemma), so a caller confirms them
+    /// exactly.
+    pub(crate) fn residues(functions: &[&RatFunc]) -> Vec<Option<Residue>> {
+        let mut names = BTreeSet::new();
+        for f in functions {
+            names.extend(f.num.variables());
+            names.extend(f.den.variables());
+        }
+        let names: Vec<String> = names.into_iter().collect();
+        let point = modular::point(&names, 0);
+        functions
+            .iter()
+            .map(|f| Residue::of_quotient(&f.num, &f.den, &point))
+            .collect()
     }
 
     /// `Some(self − other)` when that difference is a rational number, decided without

@@ -326,6 +326,47 @@ mod tests {
     }
 
     #[test]
+    fn residues_add_like_the_functions_and_tell_unequal_ones_apart() {
+        use crate::algebra::Residue;
+        // Evaluation at a point modulo a prime is a ring homomorphism where the denominators
+        // do not vanish (common practice): the residue of a + b is the sum of the residues, so
+        // a pair whose residues do not add up cannot sum to the target.
+        let (x, y) = (v("x"), v("y"));
+        let over = |a: &RatFunc, b: &RatFunc| a.checked_div(b).unwrap();
+        let values = [
+            c(3),
+            RatFunc::constant(q(1, 2)),
+            &x + c(1),
+            &x + c(2),
+            &(&x * &y) + c(1),
+            over(&c(1), &(&x - c(1))),
+            over(&(&x + &y), &(&y + c(2))),
+            over(&RatFunc::constant(q(7, 3)), &(&(&x * &x) + &y)),
+        ];
+        for a in &values {
+            for b in &values {
+                let sum = a + b;
+                let residues = RatFunc::residues(&[a, b, &sum]);
+                let [Some(ra), Some(rb), Some(rs)] = residues[..] else {
+                    panic!("no denominator vanishes at the point: {a}, {b}");
+                };
+                assert_eq!(ra + rb, rs, "{a} + {b}");
+                let other = &sum + &c(1);
+                let shifted = RatFunc::residues(&[a, b, &other]);
+                assert_ne!(
+                    shifted[0].unwrap() + shifted[1].unwrap(),
+                    shifted[2].unwrap(),
+                    "{a} + {b} against {other}"
+                );
+                assert_eq!(
+                    shifted[2].unwrap(),
+                    shifted[0].unwrap() + shifted[1].unwrap() + Residue::from_integer(1)
+                );
+            }
+        }
+    }
+
+    #[test]
     fn difference_if_number_agrees_with_subtraction() {
         let (x, y) = (v("x"), v("y"));
         let over = |a: &RatFunc, b: &RatFunc| a.checked_div(b).unwrap();
