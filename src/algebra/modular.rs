@@ -12,6 +12,7 @@ use std::collections::BTreeMap;
 
 use num_bigint::Sign;
 
+use super::monomial::Monomial;
 use super::poly::Poly;
 use super::rational::Q;
 
@@ -107,34 +108,39 @@ pub(super) fn point(names: &[String], attempt: u64) -> BTreeMap<&str, u64> {
 pub(super) fn image(p: &Poly, var: &str, point: &BTreeMap<&str, u64>) -> Option<Vec<u64>> {
     let mut coeffs = vec![0u64; p.degree_in(var) as usize + 1];
     for (monomial, c) in p.terms() {
-        let mut value = residue(c)?;
-        let mut degree = 0;
-        for (name, e) in monomial.factors() {
-            if name == var {
-                degree = e as usize;
-            } else {
-                let x = point[name];
-                value = mul(value, if e == 1 { x } else { pow(x, e.into()) });
-            }
-        }
+        let (value, degree) = term_at(monomial, c, point, Some(var))?;
         coeffs[degree] = add(coeffs[degree], value);
     }
     Some(coeffs)
 }
 
+/// The term `c·monomial` with every variable but `free` at `point`, and the exponent of
+/// `free`; `None` when the coefficient's denominator vanishes modulo the prime.
+fn term_at(
+    monomial: &Monomial,
+    c: &Q,
+    point: &BTreeMap<&str, u64>,
+    free: Option<&str>,
+) -> Option<(u64, usize)> {
+    let mut value = residue(c)?;
+    let mut degree = 0;
+    for (name, e) in monomial.factors() {
+        if Some(name) == free {
+            degree = e as usize;
+        } else {
+            let x = point[name];
+            value = mul(value, if e == 1 { x } else { pow(x, e.into()) });
+        }
+    }
+    Some((value, degree))
+}
+
 /// The value of `p` modulo the prime with every variable at `point` (which must hold them
 /// all); `None` when a coefficient's denominator is a multiple of the prime.
 pub(super) fn value(p: &Poly, point: &BTreeMap<&str, u64>) -> Option<u64> {
-    let mut sum = 0;
-    for (monomial, c) in p.terms() {
-        let mut term = residue(c)?;
-        for (name, e) in monomial.factors() {
-            let x = point[name];
-            term = mul(term, if e == 1 { x } else { pow(x, e.into()) });
-        }
-        sum = add(sum, term);
-    }
-    Some(sum)
+    p.terms().try_fold(0, |sum, (monomial, c)| {
+        Some(add(sum, term_at(monomial, c, point, None)?.0))
+    })
 }
 
 /// A residue modulo 2^61 − 1: the value of a rational function at a point (see

@@ -6,13 +6,12 @@ use std::cmp::Ordering;
 use std::collections::btree_map::Entry;
 use std::collections::hash_map::Entry as HashEntry;
 use std::collections::{BTreeMap, BTreeSet};
-
-use rustc_hash::FxHashMap;
 use std::fmt;
 
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
+use rustc_hash::FxHashMap;
 
 use super::monomial::Monomial;
 use super::rational::{add_assign_q, from_rug_rational, to_rug_rational, Q};

@@ -248,7 +248,7 @@ impl Numbers {
                         break;
                     }
                     last_lost = lost;
-                    work = work.max(digits + 2 + lost.ceil() as u32 + 3).max(work + 12);
+                    work = (digits + 2 + lost.ceil() as u32 + 3).max(work + 12);
                 }
                 Err(e) => {
                     out.failure = Some(e);

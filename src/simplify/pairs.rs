@@ -176,6 +176,7 @@ pub fn binomial_from_gammas(p: &Product, _: &Context) -> Vec<Product> {
     // sums, each a product of long polynomials and a gcd).
     let constants: Vec<&RatFunc> = all.iter().map(|(_, g, _)| &g.constant).collect();
     let residues = RatFunc::residues(&constants);
+    let one_residue = Residue::from_integer(1);
     for (top_position, &(i, top, ei)) in all.iter().enumerate() {
         if ei <= 0 {
             continue;
@@ -198,7 +199,7 @@ pub fn binomial_from_gammas(p: &Product, _: &Context) -> Vec<Product> {
                     residues[position],
                     residues[right_position],
                 ) {
-                    if l + r != t + Residue::from_integer(1) {
+                    if l + r != t + one_residue {
                         continue;
                     }
                 }
